@@ -1,0 +1,6 @@
+export * from "./auth";
+export * from "./homes";
+export * from "./devices";
+export * from "./library";
+export * from "./zones";
+export * from "./pushes";

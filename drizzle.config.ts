@@ -1,0 +1,11 @@
+import { defineConfig } from "drizzle-kit";
+
+export default defineConfig({
+  dialect: "postgresql",
+  schema: "./db/schema/index.ts",
+  out: "./drizzle",
+  casing: "snake_case",
+  dbCredentials: {
+    url: process.env.DATABASE_URL ?? "postgres://zonewright@127.0.0.1:54329/zonewright",
+  },
+});
