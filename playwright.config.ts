@@ -9,7 +9,7 @@ export default defineConfig({
   retries: 0,
   timeout: 60_000,
   expect: { timeout: 10_000 },
-  outputDir: ".data/test-results/playwright",
+  outputDir: `.data/test-results${process.env.ZW_TEST_INSTANCE ? `-${process.env.ZW_TEST_INSTANCE}` : ""}/playwright`,
   use: {
     baseURL: process.env.E2E_BASE_URL ?? "http://localhost:3100",
     trace: "retain-on-failure",

@@ -38,6 +38,8 @@ export const permissionTable = {
   "zone:create": { ...designers, installer: "assigned" },
   "zone:edit": { ...designers, installer: "assigned" },
   "zone:delete": designers,
+  /** The read-only history of a deleted zone. */
+  "zone:read-deleted": designers,
   "guest:edit": { ...designers, installer: "assigned" },
   "guest:lock": { ...designers, support: "company" },
   "guest:unlock": { ...designers, support: "company" },

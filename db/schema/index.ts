@@ -4,3 +4,5 @@ export * from "./devices";
 export * from "./library";
 export * from "./zones";
 export * from "./pushes";
+export * from "./access";
+export * from "./measurements";

@@ -109,3 +109,44 @@ export type Push = typeof pushes.$inferSelect;
 export type PushTarget = typeof pushTargets.$inferSelect;
 export type AuditEvent = typeof auditEvents.$inferSelect;
 export type NewAuditEvent = typeof auditEvents.$inferInsert;
+
+/** Fleet webhook events already handled (duplicates are acknowledged, not re-applied). */
+export const fleetEvents = pgTable(
+  "fleet_events",
+  {
+    eventId: text().primaryKey(),
+    fleetDeviceId: text().notNull(),
+    kind: text().notNull(),
+    payload: jsonb().$type<Record<string, unknown>>().notNull(),
+    receivedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("fleet_events_device_idx").on(t.fleetDeviceId, t.receivedAt)],
+);
+
+/** A scheduled firmware update for one device, moving through the push states. */
+export const firmwareUpdates = pgTable(
+  "firmware_updates",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organizationId: text()
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    deviceId: uuid()
+      .notNull()
+      .references(() => devices.id, { onDelete: "cascade" }),
+    targetVersion: text().notNull(),
+    windowStart: timestamp({ withTimezone: true }).notNull(),
+    windowEnd: timestamp({ withTimezone: true }).notNull(),
+    state: text().$type<PushTargetState>().notNull().default("queued"),
+    fleetUpdateId: text(),
+    attempts: integer().notNull().default(0),
+    lastError: text(),
+    createdBy: text().references(() => user.id, { onDelete: "set null" }),
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("firmware_updates_device_idx").on(t.deviceId, t.state)],
+);
+
+export type FleetEvent = typeof fleetEvents.$inferSelect;
+export type FirmwareUpdate = typeof firmwareUpdates.$inferSelect;

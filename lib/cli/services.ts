@@ -10,7 +10,15 @@ export interface LocalServicePorts {
 }
 
 export const demoPorts: LocalServicePorts = { app: 3000, fleet: 4010, stations: 4020, smtp: 2525, smtpHttp: 2526 };
-export const testPorts: LocalServicePorts = { app: 3100, fleet: 4110, stations: 4120, smtp: 2625, smtpHttp: 2626 };
+// ZW_TEST_INSTANCE=N shifts every port so several suites can run side by side.
+const instance = Number(process.env.ZW_TEST_INSTANCE ?? 0);
+export const testPorts: LocalServicePorts = {
+  app: 3100 + instance * 10,
+  fleet: 4110 + instance * 10,
+  stations: 4120 + instance * 10,
+  smtp: 2625 + instance * 10,
+  smtpHttp: 2626 + instance * 10,
+};
 
 export function serviceEnv(ports: LocalServicePorts, databaseUrl: string, zwEnv: "local" | "test"): ChildEnv {
   const appUrl = `http://localhost:${ports.app}`;

@@ -29,7 +29,7 @@ function readPlaywright(file: string): Tally | null {
 
 async function main() {
   const only = process.argv.slice(2).find((a) => a.startsWith("--only="))?.slice(7);
-  const out = path.join(root, ".data", "test-results");
+  const out = path.join(root, ".data", `test-results${process.env.ZW_TEST_INSTANCE ? `-${process.env.ZW_TEST_INSTANCE}` : ""}`);
   fs.rmSync(out, { recursive: true, force: true });
   fs.mkdirSync(out, { recursive: true });
 
@@ -40,11 +40,15 @@ async function main() {
 
   process.env.ZW_PG_FAST = "1";
   console.log("Tests: starting the test PostgreSQL cluster…");
-  const integrationDb = await startLocalPostgres({ ...testCluster, reset: true });
-  const e2eDb = await startLocalPostgres({ ...testCluster, database: "zonewright_e2e", reset: true, log: () => {} });
+  // ZW_TEST_INSTANCE=N: own databases and ports on the shared test cluster,
+  // which is then left running for the other instances.
+  const instance = process.env.ZW_TEST_INSTANCE;
+  const suffix = instance ? `_${instance}` : "";
+  const integrationDb = await startLocalPostgres({ ...testCluster, database: `zonewright_test${suffix}`, reset: true });
+  const e2eDb = await startLocalPostgres({ ...testCluster, database: `zonewright_e2e${suffix}`, reset: true, log: () => {} });
   const cleanup = () => {
     stopChildren();
-    integrationDb.stop();
+    if (!instance) integrationDb.stop();
   };
   process.on("SIGINT", () => {
     cleanup();
@@ -60,7 +64,8 @@ async function main() {
 
   if (!only || only === "vitest") {
     const vitestJson = path.join(out, "vitest.json");
-    const code = await runStep(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${vitestJson}`], {
+    const filters = process.argv.slice(2).filter((a) => !a.startsWith("--"));
+    const code = await runStep(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${vitestJson}`, ...filters], {
       ...serviceEnv(testPorts, integrationDb.url, "test"),
       NODE_ENV: "test",
     });
@@ -78,7 +83,8 @@ async function main() {
       await startFakes(testPorts, env, true);
       await startApp(testPorts, env, "production", true);
       const pwJson = path.join(out, "playwright.json");
-      const code = await runStep(bin("playwright"), ["test", "--reporter=list,json"], {
+      const filters = process.argv.slice(2).filter((a) => !a.startsWith("--"));
+      const code = await runStep(bin("playwright"), ["test", "--reporter=list,json", ...filters], {
         ...env,
         PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson,
         E2E_BASE_URL: `http://localhost:${testPorts.app}`,
