@@ -13,18 +13,27 @@ export type HomeListQuery = z.infer<typeof homeListQuerySchema>;
 
 export const servicePlans = ["essential", "standard", "priority"] as const;
 
-export const homeInputSchema = z.object({
+const homeFields = {
   name: z.string().trim().min(2, "Give the home a name of at least 2 characters.").max(80),
   householdName: z.string().trim().min(2, "Name the household (at least 2 characters).").max(80),
-  city: z.string().trim().max(80).default(""),
-  servicePlan: z.enum(servicePlans).default("standard"),
-  notes: z.string().trim().max(2000).default(""),
+  city: z.string().trim().max(80),
+  servicePlan: z.enum(servicePlans),
+  notes: z.string().trim().max(2000),
+};
+
+export const homeInputSchema = z.object({
+  ...homeFields,
+  city: homeFields.city.default(""),
+  servicePlan: homeFields.servicePlan.default("standard"),
+  notes: homeFields.notes.default(""),
 });
 export type HomeInput = z.infer<typeof homeInputSchema>;
 
-export const homeUpdateSchema = homeInputSchema.partial().extend({
-  version: z.number().int().min(1),
-});
+// No defaults here: a field left out of a PATCH stays as it is.
+export const homeUpdateSchema = z
+  .object(homeFields)
+  .partial()
+  .extend({ version: z.number().int().min(1) });
 
 export const homeIdParamsSchema = z.object({ homeId: z.uuid("That is not a valid home id.") });
 

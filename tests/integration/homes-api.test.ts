@@ -152,3 +152,16 @@ describe("writing homes", () => {
     expect(await query("select city from homes where id = $1", [id])).toEqual([{ city: "Fernhill East" }]);
   });
 });
+
+describe("partial updates", () => {
+  it("a PATCH of one field leaves the others as they were", async () => {
+    const cookie = await signInAs(people.integrator);
+    const id = await homeId("Lindqvist residence");
+    const [before] = await query<{ service_plan: string; city: string; version: number }>("select service_plan, city, version from homes where id = $1", [id]);
+    const res = await callRoute(patchHomeRoute, { method: "PATCH", path: `/api/homes/${id}`, params: { homeId: id }, cookie, body: { notes: "Gate code with the household", version: before.version } });
+    expect(res.status).toBe(200);
+    expect(await query("select service_plan, city, notes from homes where id = $1", [id])).toEqual([
+      { service_plan: before.service_plan, city: before.city, notes: "Gate code with the household" },
+    ]);
+  });
+});

@@ -1,43 +1,27 @@
-import { EmptyState } from "@/components/ui/empty-state";
+import { ActivityView } from "@/components/history/activity-view";
 import { ForbiddenNotice } from "@/components/ui/forbidden-notice";
-import { listRecentActivity } from "@/db/queries/overview";
+import { SWRProvider } from "@/components/ui/swr-provider";
+import { activityFacets, listActivity } from "@/db/queries/history";
 import { can } from "@/lib/permissions";
 import { requirePageActor } from "@/lib/session";
+import { activityQuerySchema, activityUrl } from "@/lib/validation/history";
 
 export const metadata = { title: "Activity" };
 
-export default async function ActivityPage() {
+export default async function ActivityPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const actor = await requirePageActor("/activity");
   if (!can(actor, "audit:read")) return <ForbiddenNotice />;
-  const events = await listRecentActivity({ actor });
+  const raw = Object.fromEntries(Object.entries(await searchParams).flatMap(([k, v]) => (typeof v === "string" ? [[k, v]] : [])));
+  const parsed = activityQuerySchema.safeParse(raw);
+  const query = parsed.success ? parsed.data : activityQuerySchema.parse({});
+  const [first, facets] = await Promise.all([listActivity({ actor, query }), activityFacets({ actor })]);
   return (
-    <div>
+    <SWRProvider fallback={{ [activityUrl(query)]: first }}>
       <h1 className="text-2xl font-semibold">Activity</h1>
-      <p className="text-sm text-slate-600">Every change, who made it and when — newest first.</p>
-      {events.length === 0 ? (
-        <EmptyState title="No activity yet." />
-      ) : (
-        <ol className="mt-4 divide-y divide-slate-100 rounded-lg border border-slate-200 bg-white">
-          {events.map((e) => (
-            <li key={e.id} className="px-4 py-3 text-sm">
-              <div className="flex flex-wrap justify-between gap-2">
-                <span className="font-medium">{e.summary}</span>
-                <time className="text-slate-500" dateTime={e.createdAt.toISOString()}>{e.createdAt.toLocaleString("en-GB")}</time>
-              </div>
-              <p className="text-slate-600">
-                {e.actorName} ({e.actorRole}){e.homeName ? ` · ${e.homeName}` : ""} · <span className="font-mono text-xs">{e.kind}</span>
-              </p>
-              {e.changes.length > 0 ? (
-                <ul className="mt-1 text-xs text-slate-600">
-                  {e.changes.map((c) => (
-                    <li key={c.field}><span className="font-mono">{c.field}</span>: {JSON.stringify(c.before)} → {JSON.stringify(c.after)}</li>
-                  ))}
-                </ul>
-              ) : null}
-            </li>
-          ))}
-        </ol>
-      )}
-    </div>
+      <p className="text-sm text-slate-600">
+        Every change by anyone in {actor.organizationName} — who, in which role, when, where, and what changed field by field. Newest first.
+      </p>
+      <ActivityView facets={facets} initialQuery={query} />
+    </SWRProvider>
   );
 }
