@@ -270,32 +270,90 @@ export function readWavHeader(bytes: Uint8Array, limits: DecodeLimits = {}, opts
   };
 }
 
+export interface DecodeOptions {
+  /**
+   * Allocates each channel's samples, e.g. on a SharedArrayBuffer so a worker
+   * thread can read them without a copy. Default: a plain Float32Array.
+   */
+  readonly allocate?: (frameCount: number) => Float32Array;
+}
+
 /** Decodes a whole WAV file to one Float32Array per channel, full scale = ±1.0. */
-export function decodeWav(bytes: Uint8Array, limits: DecodeLimits = {}): DecodedWav {
+export function decodeWav(bytes: Uint8Array, limits: DecodeLimits = {}, opts: DecodeOptions = {}): DecodedWav {
   const header = readWavHeader(bytes, limits);
   const { channelCount, frameCount, blockAlign, dataOffset, littleEndian: le, bitDepth, format } = header;
-  const channels = Array.from({ length: channelCount }, () => new Float32Array(frameCount));
+  const allocate = opts.allocate ?? ((n: number) => new Float32Array(n));
+  const channels = Array.from({ length: channelCount }, () => allocate(frameCount));
   const view = new DataView(bytes.buffer, bytes.byteOffset + dataOffset, frameCount * blockAlign);
   const bytesPerSample = bitDepth / 8;
-  for (let c = 0; c < channelCount; c++) {
-    const out = channels[c]!;
-    let pos = c * bytesPerSample;
-    if (format === "float") {
-      for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getFloat32(pos, le);
-    } else if (bitDepth === 16) {
-      for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getInt16(pos, le) / 32768;
-    } else if (bitDepth === 24) {
-      for (let i = 0; i < frameCount; i++, pos += blockAlign) {
-        const b0 = view.getUint8(pos);
-        const b1 = view.getUint8(pos + 1);
-        const b2 = view.getUint8(pos + 2);
-        // Assemble as a signed 32-bit word, then shift back down to keep the sign.
-        const word = le ? (b2 << 24) | (b1 << 16) | (b0 << 8) : (b0 << 24) | (b1 << 16) | (b2 << 8);
-        out[i] = (word >> 8) / 8388608;
+  if (format === "pcm-int" && bitDepth === 24) {
+    decodePcm24(bytes, dataOffset, frameCount, blockAlign, le, channels);
+  } else if (format === "pcm-int" && bitDepth === 16 && le && channelCount === 2) {
+    decodePcm16Stereo(view, frameCount, channels[0]!, channels[1]!);
+  } else {
+    for (let c = 0; c < channelCount; c++) {
+      const out = channels[c]!;
+      let pos = c * bytesPerSample;
+      if (format === "float") {
+        for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getFloat32(pos, le);
+      } else if (bitDepth === 16) {
+        for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getInt16(pos, le) / 32768;
+      } else {
+        for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getInt32(pos, le) / 2147483648;
       }
-    } else {
-      for (let i = 0; i < frameCount; i++, pos += blockAlign) out[i] = view.getInt32(pos, le) / 2147483648;
     }
   }
   return { sampleRate: header.sampleRate, channels, bitDepth, format, durationSeconds: header.durationSeconds };
+}
+
+/**
+ * 24-bit PCM, the usual format of measurement clips: one sequential pass over
+ * the bytes (frame by frame, every channel), assembling each word from three
+ * byte reads rather than three DataView calls.
+ */
+function decodePcm24(
+  bytes: Uint8Array,
+  dataOffset: number,
+  frameCount: number,
+  blockAlign: number,
+  le: boolean,
+  channels: Float32Array[],
+): void {
+  const channelCount = channels.length;
+  const scale = 1 / 8388608;
+  if (channelCount === 2 && le) {
+    const left = channels[0]!;
+    const right = channels[1]!;
+    for (let i = 0, p = dataOffset; i < frameCount; i++, p += 6) {
+      // Assemble as a signed 32-bit word, then shift back down to keep the sign.
+      left[i] = (((bytes[p + 2]! << 24) | (bytes[p + 1]! << 16) | (bytes[p]! << 8)) >> 8) * scale;
+      right[i] = (((bytes[p + 5]! << 24) | (bytes[p + 4]! << 16) | (bytes[p + 3]! << 8)) >> 8) * scale;
+    }
+    return;
+  }
+  for (let i = 0, frame = dataOffset; i < frameCount; i++, frame += blockAlign) {
+    for (let c = 0, p = frame; c < channelCount; c++, p += 3) {
+      const word = le
+        ? (bytes[p + 2]! << 24) | (bytes[p + 1]! << 16) | (bytes[p]! << 8)
+        : (bytes[p]! << 24) | (bytes[p + 1]! << 16) | (bytes[p + 2]! << 8);
+      channels[c]![i] = (word >> 8) * scale;
+    }
+  }
+}
+
+/** 16-bit little-endian stereo through one Int16 view when the data is 2-byte aligned. */
+function decodePcm16Stereo(view: DataView, frameCount: number, left: Float32Array, right: Float32Array): void {
+  const scale = 1 / 32768;
+  if ((view.byteOffset & 1) === 0 && new Uint8Array(new Uint16Array([1]).buffer)[0] === 1) {
+    const words = new Int16Array(view.buffer, view.byteOffset, frameCount * 2);
+    for (let i = 0, p = 0; i < frameCount; i++, p += 2) {
+      left[i] = words[p]! * scale;
+      right[i] = words[p + 1]! * scale;
+    }
+    return;
+  }
+  for (let i = 0, pos = 0; i < frameCount; i++, pos += 4) {
+    left[i] = view.getInt16(pos, true) * scale;
+    right[i] = view.getInt16(pos + 2, true) * scale;
+  }
 }

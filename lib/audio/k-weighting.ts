@@ -104,3 +104,64 @@ export function accumulateKWeightedEnergy(
     sums[j]! += weight * acc;
   }
 }
+
+/**
+ * `accumulateKWeightedEnergy` for two channels in one pass (same arithmetic
+ * per channel, so the same sums). Each channel's recursion is a chain of
+ * dependent multiply-adds; running two independent chains side by side lets
+ * the CPU overlap them, which nearly halves the time for stereo. Also
+ * returns each channel's sample peak (largest |x|), found on the way.
+ */
+export function accumulateKWeightedEnergyPair(
+  left: ArrayLike<number>,
+  right: ArrayLike<number>,
+  coefficients: KWeightingCoefficients,
+  boundaries: Int32Array | Float64Array,
+  weights: readonly [number, number],
+  sums: Float64Array,
+): [number, number] {
+  const { b0: p0, b1: p1, b2: p2, a1: pa1, a2: pa2 } = coefficients.shelf;
+  const { b0: r0, b1: r1, b2: r2, a1: ra1, a2: ra2 } = coefficients.highpass;
+  const [wl, wr] = weights;
+  let ls1 = 0, ls2 = 0, lt1 = 0, lt2 = 0;
+  let rs1 = 0, rs2 = 0, rt1 = 0, rt2 = 0;
+  let lPeak = 0;
+  let rPeak = 0;
+  const segments = boundaries.length - 1;
+  for (let j = 0; j < segments; j++) {
+    const start = boundaries[j]!;
+    const end = boundaries[j + 1]!;
+    let lAcc = 0;
+    let rAcc = 0;
+    for (let i = start; i < end; i++) {
+      const xl = left[i]!;
+      const xr = right[i]!;
+      const ly1 = p0 * xl + ls1;
+      const ry1 = p0 * xr + rs1;
+      ls1 = p1 * xl - pa1 * ly1 + ls2;
+      rs1 = p1 * xr - pa1 * ry1 + rs2;
+      ls2 = p2 * xl - pa2 * ly1;
+      rs2 = p2 * xr - pa2 * ry1;
+      const ly2 = r0 * ly1 + lt1;
+      const ry2 = r0 * ry1 + rt1;
+      lt1 = r1 * ly1 - ra1 * ly2 + lt2;
+      rt1 = r1 * ry1 - ra1 * ry2 + rt2;
+      lt2 = r2 * ly1 - ra2 * ly2;
+      rt2 = r2 * ry1 - ra2 * ry2;
+      lAcc += ly2 * ly2;
+      rAcc += ry2 * ry2;
+      if (xl > lPeak) lPeak = xl;
+      else if (-xl > lPeak) lPeak = -xl;
+      if (xr > rPeak) rPeak = xr;
+      else if (-xr > rPeak) rPeak = -xr;
+    }
+    sums[j]! += wl * lAcc;
+    sums[j]! += wr * rAcc;
+  }
+  // Samples after the last whole segment count for the peak too.
+  for (let i = segments > 0 ? boundaries[segments]! : 0; i < left.length; i++) {
+    lPeak = Math.max(lPeak, Math.abs(left[i]!));
+    rPeak = Math.max(rPeak, Math.abs(right[i]!));
+  }
+  return [lPeak, rPeak];
+}

@@ -15,7 +15,7 @@
  * values survive its gates (also the case for clips shorter than 3 s).
  */
 
-import { accumulateKWeightedEnergy, kWeightingCoefficients } from "./k-weighting";
+import { accumulateKWeightedEnergy, accumulateKWeightedEnergyPair, kWeightingCoefficients } from "./k-weighting";
 import { truePeakLinear, type TruePeakOptions } from "./true-peak";
 
 export type ChannelLayout = "mono" | "stereo" | "5.0" | "5.1";
@@ -150,9 +150,21 @@ export function measureLoudness(
   const stepEnergy = new Float64Array(stepCount);
   const coefficients = kWeightingCoefficients(sampleRate);
   let samplePeak = 0;
+  // Measured channels two at a time (see accumulateKWeightedEnergyPair); the
+  // order of additions into stepEnergy is the same as one channel at a time.
+  const measured = weights.flatMap((w, c) => (w > 0 && stepCount > 0 ? [c] : []));
+  for (let k = 0; k + 1 < measured.length; k += 2) {
+    const [a, b] = [measured[k]!, measured[k + 1]!];
+    const peaks = accumulateKWeightedEnergyPair(channels[a]!, channels[b]!, coefficients, boundaries, [weights[a]!, weights[b]!], stepEnergy);
+    samplePeak = Math.max(samplePeak, peaks[0], peaks[1]);
+  }
+  if (measured.length % 2 === 1) {
+    accumulateKWeightedEnergy(channels[measured[measured.length - 1]!]!, coefficients, boundaries, weights[measured[measured.length - 1]!]!, stepEnergy);
+  }
+  const peakDone = new Set(measured.slice(0, measured.length - (measured.length % 2)));
   for (let c = 0; c < channelCount; c++) {
+    if (peakDone.has(c)) continue;
     const x = channels[c]!;
-    if (weights[c]! > 0 && stepCount > 0) accumulateKWeightedEnergy(x, coefficients, boundaries, weights[c]!, stepEnergy);
     for (let i = 0; i < length; i++) {
       const v = x[i]! < 0 ? -x[i]! : x[i]!;
       if (v > samplePeak) samplePeak = v;

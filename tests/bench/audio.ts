@@ -5,8 +5,12 @@
  * (programme-like noise with a slow swell, and a steady -1 dBFS tone — the
  * worst case for the true-peak scan, which cannot skip any block), then
  * prints medians of:
- *  - whole-process time of our CLI (node + tsx loader, as `npm run loudness`
- *    does) and of ffmpeg's ebur128 filter with true peak, when ffmpeg exists;
+ *  - whole-process time (wall clock, and CPU time user + system when GNU
+ *    time is at /usr/bin/time) of our CLI three ways — the precompiled
+ *    bundle (`node .data/cache/loudness-cli.mjs`, see lib/cli/loudness.ts),
+ *    `node --import tsx lib/cli/loudness.ts`, and `npm run -s loudness --`
+ *    — and of ffmpeg's ebur128 filter with true peak when ffmpeg exists,
+ *    run interleaved so a busy machine slows all of them alike;
  *  - in-process decode and analysis time, and × real time;
  *  - a 10-band tone-curve response on the 24-per-octave grid, and the
  *    largest-boost search on its 96-per-octave grid.
@@ -15,16 +19,17 @@
 
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
+import { ensureLoudnessBundle } from "../../lib/cli/loudness";
 import { decodeWav } from "../../lib/audio/decode";
 import { measureLoudness } from "../../lib/audio/loudness";
 import { curveResponse, largestBoostDb, logFrequencyGrid, type ToneBand } from "../../lib/audio/tone-curve";
 
 const SAMPLE_RATE = 48_000;
 const SECONDS = 180;
-const runs = Math.max(1, Number(process.argv[2] ?? 5));
+const runs = Math.max(1, Number(process.argv.slice(2).find((a) => /^\d+$/.test(a)) ?? 5));
 
 function median(values: number[]): number {
   const s = [...values].sort((a, b) => a - b);
@@ -93,16 +98,49 @@ function steadyTone(): Float32Array {
   return out;
 }
 
-function processTime(cmd: string, args: string[], n: number): number | undefined {
-  const samples: number[] = [];
-  for (let i = 0; i < n; i++) {
-    const t0 = performance.now();
-    const r = spawnSync(cmd, args, { encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
-    const ms = performance.now() - t0;
-    if (r.error || r.status !== 0) return undefined;
-    samples.push(ms);
+interface ProcessTiming {
+  wallMs: number;
+  /** user + system CPU time of the process and its children; undefined without GNU time. */
+  cpuMs: number | undefined;
+}
+
+const gnuTime = spawnSync("/usr/bin/time", ["-f", "%U", "true"], { encoding: "utf8" }).status === 0;
+
+function processOnce(cmd: string, args: string[], timesFile: string): ProcessTiming | undefined {
+  const t0 = performance.now();
+  const r = gnuTime
+    ? spawnSync("/usr/bin/time", ["-o", timesFile, "-f", "%U %S", cmd, ...args], { encoding: "utf8", maxBuffer: 64 * 1024 * 1024 })
+    : spawnSync(cmd, args, { encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
+  const wallMs = performance.now() - t0;
+  if (r.error || r.status !== 0) return undefined;
+  let cpuMs: number | undefined;
+  if (gnuTime) {
+    const [user, system] = readFileSync(timesFile, "utf8").trim().split(/\s+/).slice(-2).map(Number);
+    cpuMs = ((user ?? NaN) + (system ?? NaN)) * 1000;
   }
-  return median(samples);
+  return { wallMs, cpuMs };
+}
+
+/** Runs every command `n` times, round-robin, and returns the medians per command. */
+function interleaved(commands: Array<[string, string[]]>, n: number, timesFile: string): Array<ProcessTiming | undefined> {
+  const samples = commands.map(() => [] as ProcessTiming[]);
+  const failed = commands.map(() => false);
+  for (let i = 0; i < n; i++) {
+    commands.forEach(([cmd, args], k) => {
+      if (failed[k]) return;
+      const t = processOnce(cmd, args, timesFile);
+      if (t) samples[k]!.push(t);
+      else failed[k] = true;
+    });
+  }
+  return samples.map((list, k) => {
+    if (failed[k] || list.length === 0) return undefined;
+    const cpu = list.map((t) => t.cpuMs);
+    return {
+      wallMs: median(list.map((t) => t.wallMs)),
+      cpuMs: cpu.every((c): c is number => c !== undefined) ? median(cpu) : undefined,
+    };
+  });
 }
 
 const root = path.resolve(import.meta.dirname, "../..");
@@ -121,13 +159,35 @@ try {
   const xrt = (ms: number) => `${((SECONDS * 1000) / ms).toFixed(0)}× real time`;
 
   const ffmpegPresent = !spawnSync("ffmpeg", ["-hide_banner", "-version"]).error;
-  const processRuns = Math.min(runs, 3);
+  const processRuns = Math.min(Math.max(runs, 3), 7);
+  const bundle = await ensureLoudnessBundle(root);
+  const timesFile = path.join(dir, "time.txt");
+  const timing = (t: ProcessTiming | undefined) =>
+    t === undefined ? "n/a" : `${t.wallMs.toFixed(1)} ms${t.cpuMs === undefined ? "" : ` (CPU ${t.cpuMs.toFixed(0)} ms)`}`;
+  const verdicts: string[] = [];
   for (const [name, file] of Object.entries(files)) {
-    const cli = processTime(process.execPath, ["--import", "tsx", path.join(root, "lib/cli/loudness.ts"), file], processRuns);
-    rows.push([`CLI whole process (node --import tsx), ${name}`, fmt(cli), cli ? xrt(cli) : ""]);
+    const commands: Array<[string, string[]]> = [
+      [process.execPath, [bundle, file]],
+      [process.execPath, ["--import", "tsx", path.join(root, "lib/cli/loudness.ts"), file]],
+      ["npm", ["run", "-s", "--prefix", root, "loudness", "--", file]],
+    ];
     if (ffmpegPresent) {
-      const ff = processTime("ffmpeg", ["-hide_banner", "-nostats", "-i", file, "-filter_complex", "ebur128=peak=true", "-f", "null", "-"], processRuns);
-      rows.push([`ffmpeg ebur128=peak=true whole process, ${name}`, fmt(ff), ff ? xrt(ff) : ""]);
+      commands.push(["ffmpeg", ["-hide_banner", "-nostats", "-i", file, "-filter_complex", "ebur128=peak=true", "-f", "null", "-"]]);
+    }
+    const [viaBundle, viaTsx, viaNpm, viaFfmpeg] = interleaved(commands, processRuns, timesFile);
+    rows.push([`CLI whole process, precompiled (node ${path.relative(root, bundle)}), ${name}`, timing(viaBundle), viaBundle ? xrt(viaBundle.wallMs) : ""]);
+    rows.push([`CLI whole process (node --import tsx lib/cli/loudness.ts), ${name}`, timing(viaTsx), viaTsx ? xrt(viaTsx.wallMs) : ""]);
+    rows.push([`CLI whole process (npm run -s loudness --), ${name}`, timing(viaNpm), viaNpm ? xrt(viaNpm.wallMs) : ""]);
+    if (ffmpegPresent) {
+      rows.push([`ffmpeg ebur128=peak=true whole process, ${name}`, timing(viaFfmpeg), viaFfmpeg ? xrt(viaFfmpeg.wallMs) : ""]);
+      if (viaBundle && viaFfmpeg) {
+        const ratio = viaFfmpeg.wallMs / viaBundle.wallMs;
+        const cpuRatio = viaBundle.cpuMs !== undefined && viaFfmpeg.cpuMs !== undefined ? viaFfmpeg.cpuMs / viaBundle.cpuMs : undefined;
+        verdicts.push(
+          `${name}: precompiled CLI vs ffmpeg ebur128 — ${ratio.toFixed(2)}× (wall)${cpuRatio === undefined ? "" : `, ${cpuRatio.toFixed(2)}× (CPU)`}: ` +
+            (ratio > 1 ? "faster, target met" : "NOT faster, target missed"),
+        );
+      }
     } else {
       rows.push([`ffmpeg ebur128 (not installed: apt-get install -y ffmpeg)`, "n/a", ""]);
     }
@@ -139,9 +199,11 @@ try {
     }, runs);
     const fullMs = time(() => measureLoudness(decoded.channels, decoded.sampleRate), runs);
     const noTpMs = time(() => measureLoudness(decoded.channels, decoded.sampleRate, { truePeak: false }), runs);
+    const jsTpMs = time(() => measureLoudness(decoded.channels, decoded.sampleRate, { truePeak: { simd: false } }), runs);
     rows.push([`decodeWav in process, ${name}`, fmt(decodeMs), xrt(decodeMs)]);
     rows.push([`measureLoudness incl. true peak, ${name}`, fmt(fullMs), xrt(fullMs)]);
     rows.push([`measureLoudness without true peak, ${name}`, fmt(noTpMs), xrt(noTpMs)]);
+    rows.push([`measureLoudness, true peak without SIMD kernel, ${name}`, fmt(jsTpMs), xrt(jsTpMs)]);
   }
 
   const bands: ToneBand[] = [
@@ -166,10 +228,13 @@ try {
 
   const w0 = Math.max(...rows.map((r) => r[0].length));
   const w1 = Math.max(...rows.map((r) => r[1].length));
-  console.log(`Audio benchmark — 3 min, 48 kHz, stereo, 24-bit; median of ${runs} in-process runs, ${processRuns} process runs`);
+  console.log(
+    `Audio benchmark — 3 min, 48 kHz, stereo, 24-bit; median of ${runs} in-process runs, ${processRuns} interleaved process runs; load average ${loadavg()[0]!.toFixed(2)} on ${cpus().length} CPUs`,
+  );
   console.log(`${"what".padEnd(w0)}  ${"time".padStart(w1)}  rate`);
   console.log(`${"-".repeat(w0)}  ${"-".repeat(w1)}  ${"-".repeat(18)}`);
   for (const [a, b, c] of rows) console.log(`${a.padEnd(w0)}  ${b.padStart(w1)}  ${c}`);
+  for (const v of verdicts) console.log(v);
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }
