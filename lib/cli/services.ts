@@ -15,7 +15,7 @@ const instance = Number(process.env.ZW_TEST_INSTANCE ?? 0);
 export const testPorts: LocalServicePorts = {
   app: 3100 + instance * 10,
   fleet: 4110 + instance * 10,
-  stations: 4120 + instance * 10,
+  stations: 4610 + instance * 10,
   smtp: 2625 + instance * 10,
   smtpHttp: 2626 + instance * 10,
 };
@@ -55,4 +55,10 @@ export async function startApp(ports: LocalServicePorts, env: ChildEnv, mode: "p
   const args = mode === "dev" ? ["dev", "-p", String(ports.app)] : ["start", "-p", String(ports.app)];
   startChild("app", bin("next"), args, env, quiet);
   await waitForHttp(`http://127.0.0.1:${ports.app}/sign-in`, 120_000, (s) => s === 200);
+}
+
+/** The push worker as its own process (see lib/cli/worker.ts); more can run side by side. */
+export function startWorker(env: ChildEnv, quiet = false) {
+  // The react-server condition makes the data-access modules' `server-only` marker an empty module.
+  startChild("worker", process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/cli/worker.ts"], env, quiet);
 }
