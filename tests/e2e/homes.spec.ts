@@ -31,7 +31,7 @@ test("search, sort and open a home", async ({ page }) => {
   await homes.search("Aalto");
   await page.getByRole("link", { name: "Aalto townhouse" }).click();
   await expect(page.getByRole("heading", { name: "Aalto townhouse" })).toBeVisible();
-  await expect(page.getByTestId("zone-card")).toHaveCount(3);
+  await expect(page.getByTestId("zone-column")).toHaveCount(3);
 });
 
 test("when the homes API fails, the table says so and can retry", async ({ page }) => {

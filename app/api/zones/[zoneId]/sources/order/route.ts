@@ -1,0 +1,7 @@
+import { reorderSources } from "@/db/queries/board";
+import { apiHandler } from "@/lib/api/handler";
+import { reorderSchema, zoneParamsSchema } from "@/lib/validation/board";
+
+export const PUT = apiHandler({ params: zoneParamsSchema, body: reorderSchema }, async ({ actor, params, body }) =>
+  reorderSources({ actor, zoneId: params.zoneId, version: body.version, ids: body.ids }),
+);
