@@ -1,4 +1,5 @@
 "use client";
+import Link from "next/link";
 import { useDroppable } from "@dnd-kit/core";
 import { SortableContext } from "@dnd-kit/sortable";
 import { memo, useContext, useMemo, type ReactNode } from "react";
@@ -141,6 +142,11 @@ export const ZoneColumn = memo(function ZoneColumn({
         ) : (
           <p className="mt-1 text-xs text-caution-700">No device bound to this zone.</p>
         )}
+        <nav aria-label={`More for ${zone.name}`} className="mt-1 flex flex-wrap gap-x-3 text-xs">
+          <Link href={`/zones/${zone.id}/level-match`} className="text-accent-700 hover:underline">Level match</Link>
+          <Link href={`/zones/${zone.id}/layout`} className="text-accent-700 hover:underline">Output layout</Link>
+          <Link href={`/zones/${zone.id}/history`} className="text-accent-700 hover:underline">History</Link>
+        </nav>
         <dl className="mt-2 grid grid-cols-2 gap-x-2 text-sm">
           <dt className="text-slate-500">Volume ceiling</dt>
           <dd className="tabular-nums" data-testid="zone-ceiling">

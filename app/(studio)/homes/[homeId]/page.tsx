@@ -32,6 +32,10 @@ export default async function HomeBoardPage({ params }: { params: Promise<{ home
       <h1 className="mt-1 text-2xl font-semibold">{home.name}</h1>
       <p className="mb-4 text-sm text-slate-600">
         {home.householdName} · {home.city} · {home.servicePlan} plan · {board.zones.length} zone{board.zones.length === 1 ? "" : "s"}
+        {" · "}
+        <Link href={`/homes/${home.id}/activity`} className="text-accent-700 hover:underline">Activity</Link>
+        {" · "}
+        <Link href={`/homes/${home.id}/backup`} className="text-accent-700 hover:underline">Backup and restore</Link>
       </p>
       <ZoneBoard homeId={home.id} />
     </SWRProvider>
