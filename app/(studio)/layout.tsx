@@ -2,6 +2,7 @@ import Link from "next/link";
 import { redirect } from "next/navigation";
 import { StudioNav, type NavItem } from "@/components/shell/studio-nav";
 import { WhoAmI } from "@/components/shell/who-am-i";
+import { env } from "@/lib/env";
 import { mayEver } from "@/lib/permissions";
 import { requirePageActor } from "@/lib/session";
 
@@ -12,8 +13,10 @@ export default async function StudioLayout({ children }: { children: React.React
     { href: "/homes", label: "Homes" },
     ...(mayEver(actor, "library:read") ? [{ href: "/library", label: "Library" }] : []),
     ...(mayEver(actor, "push:read") ? [{ href: "/pushes", label: "Pushes" }] : []),
+    ...(mayEver(actor, "device:read") ? [{ href: "/devices", label: "Devices" }] : []),
     ...(mayEver(actor, "audit:read") ? [{ href: "/activity", label: "Activity" }] : []),
     ...(mayEver(actor, "team:read") ? [{ href: "/team", label: "Team" }] : []),
+    ...(env().ZW_ENV !== "production" && mayEver(actor, "mailbox:read") ? [{ href: "/mailbox", label: "Mailbox" }] : []),
   ];
   return (
     <div className="min-h-screen">

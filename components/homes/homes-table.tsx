@@ -2,6 +2,7 @@
 import Link from "next/link";
 import { useEffect, useState } from "react";
 import useSWR from "swr";
+import { DriftSummary } from "@/components/fleet/drift-summary";
 import type { HomeListDto } from "@/db/queries/homes";
 import type { ApiError } from "@/lib/fetcher";
 import { homeListUrl, type HomeListQuery } from "@/lib/validation/homes";
@@ -75,14 +76,15 @@ export function HomesTable({ initialQuery }: { initialQuery: HomeListQuery; canC
                   </button>
                 </th>
               ))}
+              <th scope="col" className="px-4 py-2">Devices</th>
             </tr>
           </thead>
           <tbody className="divide-y divide-slate-100">
             {isLoading && !data ? (
-              <tr><td colSpan={5} className="px-4 py-8 text-center text-slate-500" role="status">Loading homes…</td></tr>
+              <tr><td colSpan={6} className="px-4 py-8 text-center text-slate-500" role="status">Loading homes…</td></tr>
             ) : data && data.items.length === 0 ? (
               <tr>
-                <td colSpan={5} className="px-4 py-10 text-center text-slate-500">
+                <td colSpan={6} className="px-4 py-10 text-center text-slate-500">
                   {query.search ? `No home matches “${query.search}”.` : "No homes yet."}
                 </td>
               </tr>
@@ -103,6 +105,7 @@ export function HomesTable({ initialQuery }: { initialQuery: HomeListQuery; canC
                   <td className="px-4 py-2 text-slate-600">
                     <time dateTime={home.updatedAt}>{new Date(home.updatedAt).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" })}</time>
                   </td>
+                  <td className="px-4 py-2"><DriftSummary counts={home.drift} /></td>
                 </tr>
               ))
             )}

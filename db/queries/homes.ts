@@ -3,6 +3,7 @@ import { and, asc, count, desc, eq, ilike, inArray, or, sql, type SQL } from "dr
 import { db } from "@/db/client";
 import { homeAssignments, homes } from "@/db/schema";
 import { recordAudit, diffFields } from "@/db/queries/audit";
+import { driftSummaryForHomes, type DriftCounts } from "@/db/queries/drift-summary";
 import { AppError } from "@/lib/errors";
 import { type Actor, can, visibleHomeIds } from "@/lib/permissions";
 import type { HomeInput, HomeListQuery } from "@/lib/validation/homes";
@@ -16,6 +17,8 @@ export interface HomeRowDto {
   zoneCount: number;
   offlineDevices: number;
   updatedAt: string;
+  /** Zones per drift state (in sync, pending, drifted, offline…). */
+  drift: DriftCounts;
 }
 
 export interface HomeListDto {
@@ -75,8 +78,13 @@ export async function listHomes({ actor, query }: { actor: Actor; query: HomeLis
     db.select({ total: count() }).from(homes).where(where),
   ]);
 
+  const drift = await driftSummaryForHomes(rows.map((r) => r.id));
   return {
-    items: rows.map((r) => ({ ...r, updatedAt: r.updatedAt.toISOString() })),
+    items: rows.map((r) => ({
+      ...r,
+      updatedAt: r.updatedAt.toISOString(),
+      drift: drift.get(r.id) ?? { in_sync: 0, pending: 0, drifted: 0, offline: 0, never_reported: 0, no_device: 0 },
+    })),
     total,
     page: query.page,
     pageSize: query.pageSize,

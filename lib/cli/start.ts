@@ -5,7 +5,7 @@ import { runMigrations } from "@/db/migrate";
 import { seedDemo } from "@/db/seed";
 import { demoPassword } from "@/db/seed-data";
 import { bin, buildIsStale, runStep, stopChildren } from "./processes";
-import { demoPorts, serviceEnv, startApp, startFakes } from "./services";
+import { demoPorts, serviceEnv, startApp, startFakes, startWorker } from "./services";
 
 async function main() {
   const dev = process.argv.includes("--dev");
@@ -33,6 +33,7 @@ async function main() {
   }
 
   await startFakes(demoPorts, env);
+  startWorker(env);
   await startApp(demoPorts, env, dev ? "dev" : "production");
 
   console.log(`
@@ -43,7 +44,8 @@ async function main() {
 ${seed.signIns.map((s) => `    ${s.email.padEnd(28)} ${s.role.padEnd(11)} ${s.company}`).join("\n")}
 
   Local fakes: fleet API http://127.0.0.1:${demoPorts.fleet} · station directory http://127.0.0.1:${demoPorts.stations}
-  Mail sink: SMTP 127.0.0.1:${demoPorts.smtp}, messages at http://127.0.0.1:${demoPorts.smtpHttp}/messages
+  Mail sink: SMTP 127.0.0.1:${demoPorts.smtp}, messages at http://localhost:${demoPorts.app}/mailbox (or http://127.0.0.1:${demoPorts.smtpHttp}/messages)
+  Push worker: running (more: node --conditions=react-server --import tsx lib/cli/worker.ts)
   Press Ctrl+C to stop everything (PostgreSQL included).
 `);
 }

@@ -5,9 +5,10 @@ import fs from "node:fs";
 import path from "node:path";
 import { startLocalPostgres, testCluster } from "@/db/local-postgres";
 import { runMigrations } from "@/db/migrate";
+import { resetAndSeed } from "@/db/reset";
 import { seedDemo } from "@/db/seed";
 import { bin, ensureDebianPackages, root, runStep, stopChildren } from "./processes";
-import { serviceEnv, startApp, startFakes, testPorts } from "./services";
+import { serviceEnv, startApp, startFakes, startWorker, testPorts } from "./services";
 
 interface Tally {
   passed: number;
@@ -81,16 +82,38 @@ async function main() {
       failedSteps.push("build");
     } else {
       await startFakes(testPorts, env, true);
+      startWorker(env, true);
       await startApp(testPorts, env, "production", true);
-      const pwJson = path.join(out, "playwright.json");
+      // Each spec file starts from a freshly seeded database and a reset fleet
+      // fake, so no spec depends on what an earlier one changed.
       const filters = process.argv.slice(2).filter((a) => !a.startsWith("--"));
-      const code = await runStep(bin("playwright"), ["test", "--reporter=list,json", ...filters], {
-        ...env,
-        PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson,
-        E2E_BASE_URL: `http://localhost:${testPorts.app}`,
-      });
-      results.playwright = readPlaywright(pwJson);
-      if (code !== 0) failedSteps.push("playwright");
+      const specs = fs
+        .readdirSync(path.join(root, "tests", "e2e"))
+        .filter((f) => f.endsWith(".spec.ts"))
+        .map((f) => `tests/e2e/${f}`)
+        .filter((f) => filters.length === 0 || filters.some((flt) => f.includes(flt)))
+        .sort();
+      const tally: Tally = { passed: 0, failed: 0, skipped: 0 };
+      let ran = 0;
+      for (const spec of specs) {
+        await resetAndSeed(e2eDb.url);
+        await fetch(`http://127.0.0.1:${testPorts.fleet}/__fleet/reset`, { method: "POST" }).catch(() => undefined);
+        const pwJson = path.join(out, `playwright-${path.basename(spec, ".spec.ts")}.json`);
+        const code = await runStep(bin("playwright"), ["test", "--reporter=list,json", spec], {
+          ...env,
+          PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson,
+          E2E_BASE_URL: `http://localhost:${testPorts.app}`,
+        });
+        const result = readPlaywright(pwJson);
+        if (result) {
+          ran++;
+          tally.passed += result.passed;
+          tally.failed += result.failed;
+          tally.skipped += result.skipped;
+        }
+        if (code !== 0) failedSteps.push("playwright");
+      }
+      results.playwright = ran > 0 ? tally : null;
       stopChildren();
     }
   }
