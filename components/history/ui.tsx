@@ -1,5 +1,5 @@
 "use client";
-import * as Dialog from "@radix-ui/react-dialog";
+import { DialogShell } from "@/components/ui/dialog-shell";
 import { useEffect, useState, type ReactNode } from "react";
 import { ApiError } from "@/lib/fetcher";
 
@@ -74,14 +74,7 @@ export function LocalTime({ iso, withSeconds = false }: { iso: string; withSecon
   );
 }
 
-export function HistoryDialog({
-  open,
-  onOpenChange,
-  title,
-  description,
-  children,
-  testId,
-}: {
+export function HistoryDialog(props: {
   open: boolean;
   onOpenChange: (open: boolean) => void;
   title: string;
@@ -89,28 +82,5 @@ export function HistoryDialog({
   children: ReactNode;
   testId?: string;
 }) {
-  return (
-    <Dialog.Root open={open} onOpenChange={onOpenChange}>
-      <Dialog.Portal>
-        <Dialog.Overlay className="fixed inset-0 z-40 bg-slate-900/40" />
-        <Dialog.Content
-          data-testid={testId}
-          className="fixed left-1/2 top-1/2 z-50 max-h-[90vh] w-[calc(100vw-2rem)] max-w-2xl -translate-x-1/2 -translate-y-1/2 overflow-y-auto rounded-lg bg-white p-5 shadow-xl focus:outline-none"
-        >
-          <div className="flex items-start justify-between gap-4">
-            <Dialog.Title className="text-lg font-semibold">{title}</Dialog.Title>
-            <Dialog.Close className="rounded px-2 py-0.5 text-slate-500 hover:bg-slate-100" aria-label="Close">
-              ✕
-            </Dialog.Close>
-          </div>
-          {description ? (
-            <Dialog.Description className="mt-1 text-sm text-slate-600">{description}</Dialog.Description>
-          ) : (
-            <Dialog.Description className="sr-only">{title}</Dialog.Description>
-          )}
-          <div className="mt-4">{children}</div>
-        </Dialog.Content>
-      </Dialog.Portal>
-    </Dialog.Root>
-  );
+  return <DialogShell wide {...props} />;
 }
