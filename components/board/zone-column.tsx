@@ -1,5 +1,6 @@
 "use client";
 import Link from "next/link";
+import { DriftBadge } from "@/components/fleet/drift-badge";
 import { useDroppable } from "@dnd-kit/core";
 import { SortableContext } from "@dnd-kit/sortable";
 import { memo, useContext, useMemo, type ReactNode } from "react";
@@ -132,6 +133,11 @@ export const ZoneColumn = memo(function ZoneColumn({
             </button>
           ) : null}
         </div>
+        {zone.device ? (
+          <div className="mt-1">
+            <DriftBadge zoneId={zone.id} />
+          </div>
+        ) : null}
         {zone.device ? (
           <p className="mt-1 text-xs text-slate-600" data-testid="zone-device">
             <span className={`mr-1 rounded px-1.5 py-0.5 ${zone.device.online ? "bg-accent-50 text-accent-700" : "bg-caution-50 text-caution-700"}`}>

@@ -1,6 +1,8 @@
 import Link from "next/link";
 import { notFound, redirect } from "next/navigation";
 import { ZoneBoard } from "@/components/board/zone-board";
+import { PushZoneButton } from "@/components/pushes/push-zone-button";
+import { can } from "@/lib/permissions";
 import { SWRProvider } from "@/components/ui/swr-provider";
 import { getBoard } from "@/db/queries/board";
 import { AppError } from "@/lib/errors";
@@ -29,7 +31,12 @@ export default async function HomeBoardPage({ params }: { params: Promise<{ home
       <nav className="text-sm text-slate-500">
         <Link href="/homes" className="hover:underline">Homes</Link> / {home.name}
       </nav>
-      <h1 className="mt-1 text-2xl font-semibold">{home.name}</h1>
+      <div className="mt-1 flex flex-wrap items-center justify-between gap-3">
+        <h1 className="text-2xl font-semibold">{home.name}</h1>
+        {can(actor, "push:create", { id: home.id, organizationId: actor.organizationId }) ? (
+          <PushZoneButton scope={{ kind: "home", homeId: home.id }} label="Push this home" />
+        ) : null}
+      </div>
       <p className="mb-4 text-sm text-slate-600">
         {home.householdName} · {home.city} · {home.servicePlan} plan · {board.zones.length} zone{board.zones.length === 1 ? "" : "s"}
         {" · "}
