@@ -441,6 +441,18 @@ describe("device care", () => {
     expect(device.firmware_version).toBe("3.4.2");
     const kinds = (await query<{ kind: string }>("select kind from audit_events order by id")).map((a) => a.kind);
     expect(kinds).toEqual(expect.arrayContaining(["device.firmware-scheduled", "device.firmware-installed"]));
+
+    // The household sees the window in plain words on its own home, and no other household does.
+    const { loadActor } = await import("@/db/queries/actors");
+    const { listMaintenanceWindows } = await import("@/db/queries/devices");
+    const actorOf = async (email: string) => {
+      const [u] = await query<{ id: string }>("select id from \"user\" where email = $1", [email]);
+      return (await loadActor({ userId: u.id, activeOrganizationId: null }))!;
+    };
+    const [home] = await query<{ id: string }>("select id from homes where name = $1", [LINDQVIST]);
+    const windows = await listMaintenanceWindows({ actor: await actorOf(people.homeowner), homeId: home.id });
+    expect(windows).toEqual([expect.objectContaining({ zoneName: "Primary suite", targetVersion: "3.4.2" })]);
+    await expect(listMaintenanceWindows({ actor: await actorOf(people.otherHomeowner), homeId: home.id })).rejects.toMatchObject({ code: "home:not-found" });
   });
 
   it("refuses a window that ends before it starts, and bulk-schedules only the devices that have something to install", async () => {
