@@ -4,6 +4,7 @@ import { db, pool, type Transaction } from "@/db/client";
 import { devices, modelProfiles, sources, streamPresets, toneCurveBands, toneCurves, user, zones, type Zone } from "@/db/schema";
 import type { FieldChange } from "@/db/queries/audit";
 import {
+  applyListOrder,
   assertGuestControlsEditable,
   changeZone,
   loadZoneForActor,
@@ -564,13 +565,6 @@ async function compactPositions(tx: Transaction, table: "sources" | "stream_pres
     where t.id = o.id and t.position <> o.n - 1`);
 }
 
-async function applyOrder(tx: Transaction, table: "sources" | "stream_presets", zoneId: string, ids: string[]) {
-  const literal = `{${ids.join(",")}}`;
-  await tx.execute(sql`
-    update ${sql.identifier(table)} set position = array_position(${literal}::uuid[], id) - 1, updated_at = now()
-    where zone_id = ${zoneId}`);
-}
-
 export async function reorderSources({
   actor,
   zoneId,
@@ -601,7 +595,7 @@ export async function reorderSources({
         ids,
         "source",
       );
-      await applyOrder(tx, "sources", zone.id, ids);
+      await applyListOrder(tx, "sources", zone.id, ids);
       const label = new Map(current.map((s) => [s.id, s.label]));
       return [{ field: "zone.sourceOrder", before: current.map((s) => s.label), after: ids.map((id) => label.get(id)) }];
     },
@@ -740,7 +734,7 @@ export async function reorderPresets({
         ids,
         "stream preset",
       );
-      await applyOrder(tx, "stream_presets", zone.id, ids);
+      await applyListOrder(tx, "stream_presets", zone.id, ids);
       const name = new Map(current.map((p) => [p.id, p.name]));
       return [{ field: "zone.presetOrder", before: current.map((p) => p.name), after: ids.map((id) => name.get(id)) }];
     },

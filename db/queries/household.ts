@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "@/db/client";
 import { homes, pushTargets, sources, streamPresets, zones } from "@/db/schema";
-import { changeZone } from "@/db/queries/zone-writes";
+import { applyListOrder, changeZone } from "@/db/queries/zone-writes";
 import { startPush } from "@/lib/fleet/push-service";
 import { sourceKindLabels, type SourceKind } from "@/lib/devices/model-profiles";
 import { AppError } from "@/lib/errors";
@@ -280,9 +280,7 @@ export async function reorderHouseholdPresets({
           fieldErrors: { presetIds: ["Must name each of this room’s stations once."] },
         });
       }
-      for (const [position, id] of presetIds.entries()) {
-        await tx.update(streamPresets).set({ position, updatedAt: new Date() }).where(eq(streamPresets.id, id));
-      }
+      await applyListOrder(tx, "stream_presets", zone.id, presetIds);
       // A zone made from a template keeps the household's order when the template changes.
       if (zone.templateId && !zone.overrides.includes("presets.order")) {
         await tx.update(zones).set({ overrides: addOverrides(zone.overrides, ["presets.order"]) }).where(eq(zones.id, zone.id));

@@ -180,3 +180,11 @@ export function assertGuestControlsEditable(actor: Actor, zone: Zone) {
     details: { lockedBy: zone.lockedBy, lockedAt: zone.lockedAt?.toISOString() ?? null, reason: zone.lockReason },
   });
 }
+
+/** Set every row's position from its index in `ids`, in one statement (callers check the set first). */
+export async function applyListOrder(tx: Transaction, table: "sources" | "stream_presets", zoneId: string, ids: string[]) {
+  const literal = `{${ids.join(",")}}`;
+  await tx.execute(sql`
+    update ${sql.identifier(table)} set position = array_position(${literal}::uuid[], id) - 1, updated_at = now()
+    where zone_id = ${zoneId}`);
+}
