@@ -91,7 +91,7 @@ function CurveLine({ name }: { name: string | null }) {
       <span className="truncate" data-testid="card-curve">{name}</span>
     </span>
   ) : (
-    <span className="text-slate-400" data-testid="card-curve">no curve</span>
+    <span className="text-slate-500" data-testid="card-curve">no curve</span>
   );
 }
 
@@ -131,7 +131,7 @@ export const SourceCardBody = memo(function SourceCardBody({
   return (
     <div className="min-w-0 flex-1 px-2 py-1.5 text-sm">
       <div className="flex items-center justify-between gap-2">
-        <span className={`truncate font-medium ${source.enabled ? "" : "text-slate-400 line-through"}`} data-testid="card-title">
+        <span className={`truncate font-medium ${source.enabled ? "" : "text-slate-500 line-through"}`} data-testid="card-title">
           {source.label}
         </span>
         <span className="flex shrink-0 items-center gap-1.5">
@@ -177,7 +177,7 @@ export const PresetCardBody = memo(function PresetCardBody({
     <div className="min-w-0 flex-1 px-2 py-1.5 text-sm">
       <div className="flex items-center justify-between gap-2">
         <span className="truncate font-medium" data-testid="card-title">
-          <span className="mr-1 tabular-nums text-slate-400">{index + 1}.</span>
+          <span className="mr-1 tabular-nums text-slate-500">{index + 1}.</span>
           {preset.name}
         </span>
         <span className="flex shrink-0 items-center gap-1.5">

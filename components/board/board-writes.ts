@@ -34,13 +34,24 @@ export const writes = {
       }),
   }),
 
-  attachCurve: (zoneId: string, target: { type: "source" | "preset"; id: string; name: string }, curve: { id: string; name: string } | null): BoardWrite => ({
-    label: curve ? `Attaching “${curve.name}” to “${target.name}”` : `Detaching the curve from “${target.name}”`,
+  attachCurve: (
+    zoneId: string,
+    target: { type: "source" | "preset"; id: string; name: string } | { type: "zone"; name: string },
+    curve: { id: string; name: string } | null,
+  ): BoardWrite => ({
+    label:
+      target.type === "zone"
+        ? curve
+          ? `Making “${curve.name}” the zone curve of “${target.name}”`
+          : `Removing the zone curve of “${target.name}”`
+        : curve
+          ? `Attaching “${curve.name}” to “${target.name}”`
+          : `Detaching the curve from “${target.name}”`,
     optimistic: optimistic.attachCurve(zoneId, target, curve?.id ?? null),
     send: (zone) =>
       sendJson<BoardWriteResult>(`${zoneUrl(zoneId)}/attach-curve`, "PUT", {
         version: zone(zoneId).version,
-        target: { type: target.type, id: target.id },
+        target: target.type === "zone" ? { type: "zone" } : { type: target.type, id: target.id },
         toneCurveId: curve?.id ?? null,
       }),
   }),

@@ -11,19 +11,22 @@ import { sortableKeyboardCoordinates, verticalListSortingStrategy, type SortingS
 // - a source: within its own zone's sources (reorder);
 // - a stream preset: within its zone's presets (reorder), or onto another
 //   zone's presets (move or copy there);
-// - a tone curve from the library tray: onto any source or preset card.
+// - a tone curve from the library tray: onto any source or preset card, or
+//   onto a zone's "Zone curve" line (applied to everything the zone plays).
 
 export type DragData =
   | { kind: "source"; id: string; zoneId: string }
   | { kind: "preset"; id: string; zoneId: string }
   | { kind: "curve"; id: string }
-  | { kind: "preset-list"; zoneId: string };
+  | { kind: "preset-list"; zoneId: string }
+  | { kind: "zone-curve"; zoneId: string };
 
 export const dragId = {
   source: (id: string) => `source:${id}`,
   preset: (id: string) => `preset:${id}`,
   curve: (id: string) => `curve:${id}`,
   presetList: (zoneId: string) => `preset-list:${zoneId}`,
+  zoneCurve: (zoneId: string) => `zone-curve:${zoneId}`,
 };
 
 export function dataOf(value: { data: { current?: unknown } } | null | undefined): DragData | null {
@@ -39,7 +42,7 @@ export function accepts(active: DragData | null, over: DragData | null): boolean
     case "preset":
       return over.kind === "preset" || (over.kind === "preset-list" && over.zoneId !== active.zoneId);
     case "curve":
-      return over.kind === "source" || over.kind === "preset";
+      return over.kind === "source" || over.kind === "preset" || over.kind === "zone-curve";
     default:
       return false;
   }

@@ -13,7 +13,7 @@ import {
 } from "@dnd-kit/core";
 import { arrayMove } from "@dnd-kit/sortable";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { curveRefusal, lockSentence, presetReorderRefusal, transferRefusal, zoneEditRefusal } from "@/lib/board/rules";
+import { curveRefusal, zoneCurveRefusal, lockSentence, presetReorderRefusal, transferRefusal, zoneEditRefusal } from "@/lib/board/rules";
 import type { BoardDto, ZoneColumnDto } from "@/lib/board/types";
 import { roleLabels } from "@/lib/permissions";
 import { EmptyState } from "@/components/ui/empty-state";
@@ -43,7 +43,7 @@ export function dropRefusal(board: BoardDto, active: DragData, over: DragData): 
   if (over.kind === "curve") return null;
   const target = zoneOf(board, over.zoneId);
   if (!target) return "That zone is no longer on the board.";
-  if (active.kind === "curve") return curveRefusal(board, target, active.id);
+  if (active.kind === "curve") return over.kind === "zone-curve" ? zoneCurveRefusal(board, target, active.id) : curveRefusal(board, target, active.id);
   if (active.kind === "source") return zoneEditRefusal(board, target);
   if (active.kind === "preset") {
     if (active.zoneId === target.id) return presetReorderRefusal(board, target);
@@ -61,6 +61,7 @@ function describe(board: BoardDto | undefined, d: DragData | null): string {
   const zone = zoneOf(board, d.zoneId);
   if (!zone) return "a card";
   if (d.kind === "preset-list") return `the stream presets of ${zone.name}`;
+  if (d.kind === "zone-curve") return `the zone curve of ${zone.name}`;
   if (d.kind === "source") {
     const i = zone.sources.findIndex((s) => s.id === d.id);
     return `source “${zone.sources[i]?.label}” of ${zone.name}, position ${i + 1} of ${zone.sources.length}`;
@@ -99,8 +100,12 @@ export function ZoneBoard({ homeId }: { homeId: string }) {
       editSource: (zoneId, cardId) => setDialog({ type: "source", zoneId, cardId }),
       addPreset: (zoneId) => setDialog({ type: "preset", zoneId }),
       editPreset: (zoneId, cardId) => setDialog({ type: "preset", zoneId, cardId }),
+      removeZoneCurve: (zoneId) => {
+        const zone = boardRef.current ? zoneOf(boardRef.current, zoneId) : undefined;
+        if (zone?.toneCurveId) void write(writes.attachCurve(zoneId, { type: "zone", name: zone.name }, null));
+      },
     }),
-    [],
+    [write],
   );
 
   const refusalFor = useCallback((active: DragData, over: DragData) => {
@@ -119,6 +124,7 @@ export function ZoneBoard({ homeId }: { homeId: string }) {
         if (!a || !o || !accepts(a, o)) return `${describe(boardRef.current, a)} is not over a place that takes it.`;
         const refusal = refusalFor(a, o);
         if (refusal) return `Over ${describe(boardRef.current, o)}. Dropping here is refused: ${refusal}`;
+        if (a.kind === "curve" && o.kind === "zone-curve") return `Over ${describe(boardRef.current, o)}. Drop to make it the zone curve.`;
         if (a.kind === "curve") return `Over ${describe(boardRef.current, o)}. Drop to attach the curve.`;
         if (o.kind === "preset-list" || ("zoneId" in a && "zoneId" in o && a.zoneId !== o.zoneId)) {
           return `Over the stream presets of ${zoneOf(boardRef.current!, (o as { zoneId: string }).zoneId)?.name}. Drop to choose move or copy.`;
@@ -131,6 +137,7 @@ export function ZoneBoard({ homeId }: { homeId: string }) {
         if (!a || !o || !accepts(a, o)) return `Dropped ${describe(boardRef.current, a)} where it cannot go. Nothing changed.`;
         const refusal = refusalFor(a, o);
         if (refusal) return `Refused: ${refusal} Nothing changed.`;
+        if (a.kind === "curve" && o.kind === "zone-curve") return `${describe(boardRef.current, a)} is now ${describe(boardRef.current, o)}.`;
         if (a.kind === "curve") return `Attached ${describe(boardRef.current, a)} to ${describe(boardRef.current, o)}.`;
         if (o.kind === "preset-list" || ("zoneId" in a && "zoneId" in o && a.zoneId !== o.zoneId)) return "Dropped. Choose whether to move or copy it.";
         return `Dropped ${describe(boardRef.current, a)} at ${describe(boardRef.current, o).replace(/^.*, position/, "position")}.`;
@@ -157,8 +164,14 @@ export function ZoneBoard({ homeId }: { homeId: string }) {
       }
       if (o.kind === "curve") return;
       const zone = zoneOf(b, o.zoneId)!;
+      if (a.kind === "curve" && o.kind === "zone-curve") {
+        if (zone.toneCurveId === a.id) return;
+        const curve = b.curves.find((c) => c.id === a.id)!;
+        void write(writes.attachCurve(zone.id, { type: "zone", name: zone.name }, { id: curve.id, name: curve.name }));
+        return;
+      }
       if (a.kind === "curve") {
-        if (o.kind === "preset-list") return;
+        if (o.kind === "preset-list" || o.kind === "zone-curve") return;
         const card = o.kind === "source" ? zone.sources.find((s) => s.id === o.id) : zone.presets.find((p) => p.id === o.id);
         if (!card || card.toneCurveId === a.id || card.id.startsWith("pending-")) return;
         const curve = b.curves.find((c) => c.id === a.id)!;

@@ -18,6 +18,7 @@ export interface ColumnActions {
   editSource: (zoneId: string, sourceId: string) => void;
   addPreset: (zoneId: string) => void;
   editPreset: (zoneId: string, presetId: string) => void;
+  removeZoneCurve: (zoneId: string) => void;
 }
 
 function ago(iso: string | null) {
@@ -37,6 +38,38 @@ function Allowed({ on, label }: { on: boolean; label: string }) {
         {label}: <span className="text-slate-500">{on ? "allowed" : "not allowed"}</span>
       </span>
     </li>
+  );
+}
+
+/**
+ * The zone's "Zone curve" line as a drop target for a curve from the tray: the
+ * zone curve applies to everything the zone plays, in series with each card's.
+ */
+function ZoneCurveDrop({ zoneId, children }: { zoneId: string; children: ReactNode }) {
+  const data: DragData = { kind: "zone-curve", zoneId };
+  const { setNodeRef, isOver, active } = useDroppable({ id: dragId.zoneCurve(zoneId), data });
+  const refusalFor = useContext(DropRefusalContext);
+  const activeData = dataOf(active);
+  const curveDrag = activeData?.kind === "curve";
+  const target = isOver && activeData !== null && accepts(activeData, data);
+  const refusal = target && activeData ? refusalFor(activeData, data) : null;
+  return (
+    <dd
+      ref={setNodeRef}
+      className={`relative -mx-1 flex min-w-0 items-center gap-1 rounded px-1 ${target ? (refusal ? "ring-2 ring-danger-600" : "ring-2 ring-accent-500") : curveDrag ? "outline-dashed outline-1 outline-accent-500/60" : ""}`}
+      data-testid="zone-curve"
+      data-drop-state={target ? (refusal ? "refused" : "accepts") : undefined}
+    >
+      {children}
+      {target ? (
+        <p
+          className={`pointer-events-none absolute inset-x-0 top-full z-10 mt-0.5 rounded px-2 py-0.5 text-xs shadow ${refusal ? "bg-danger-50 text-danger-700 ring-1 ring-danger-600/40" : "bg-accent-50 text-accent-700 ring-1 ring-accent-500/40"}`}
+          data-testid="drop-hint"
+        >
+          {refusal ?? "Drop to make this the zone curve"}
+        </p>
+      ) : null}
+    </dd>
   );
 }
 
@@ -161,7 +194,20 @@ export const ZoneColumn = memo(function ZoneColumn({
           <dt className="text-slate-500">Turn-on volume</dt>
           <dd className="tabular-nums">{zone.turnOnVolume} %</dd>
           <dt className="text-slate-500">Zone curve</dt>
-          <dd className="truncate">{zoneCurve?.name ?? "none"}</dd>
+          <ZoneCurveDrop zoneId={zone.id}>
+            <span className="truncate" data-testid="zone-curve-name">{zoneCurve?.name ?? "none"}</span>
+            {zoneCurve && may.editZone && !editRefusal ? (
+              <button
+                type="button"
+                onClick={() => actions.removeZoneCurve(zone.id)}
+                aria-label={`Remove the zone curve of ${zone.name}`}
+                title="Remove the zone curve"
+                className="shrink-0 rounded px-1 text-slate-400 hover:bg-slate-100 hover:text-slate-700 focus-visible:outline focus-visible:outline-2 focus-visible:outline-accent-600"
+              >
+                <span aria-hidden="true">✕</span>
+              </button>
+            ) : null}
+          </ZoneCurveDrop>
         </dl>
         {ceilingCaution ? (
           <p className="mt-1 text-xs text-caution-700" data-testid="ceiling-caution" title={ceilingCaution}>

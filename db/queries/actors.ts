@@ -1,38 +1,41 @@
 import "server-only";
-import { asc, eq } from "drizzle-orm";
-import { db } from "@/db/client";
-import { homeAssignments, householdMembers, member, organization, user } from "@/db/schema";
+import { pool } from "@/db/client";
 import { type Actor, type Role, roles } from "@/lib/permissions";
+
+/**
+ * Every request resolves its person to a role, so this is one prepared
+ * statement: the memberships (oldest first) with the household homes and
+ * assigned homes of that person, in one round trip.
+ */
+const actorStatement = {
+  name: "zw_actor_v1",
+  text: `select m.organization_id as "organizationId", o.name as "organizationName", m.role, u.name, u.email,
+                coalesce((select array_agg(hm.home_id::text) from household_members hm where hm.user_id = u.id), '{}') as "householdHomeIds",
+                coalesce((select array_agg(ha.home_id::text) from home_assignments ha where ha.user_id = u.id), '{}') as "assignedHomeIds"
+         from member m
+         join organization o on o.id = m.organization_id
+         join "user" u on u.id = m.user_id
+         where m.user_id = $1
+         order by m.created_at`,
+};
+
+interface MembershipRow {
+  organizationId: string;
+  organizationName: string;
+  role: string;
+  name: string;
+  email: string;
+  householdHomeIds: string[];
+  assignedHomeIds: string[];
+}
 
 /** Resolve a user to their role in their (active) company. */
 export async function loadActor(input: { userId: string; activeOrganizationId: string | null }): Promise<Actor | null> {
-  const memberships = await db
-    .select({
-      organizationId: member.organizationId,
-      organizationName: organization.name,
-      role: member.role,
-      name: user.name,
-      email: user.email,
-    })
-    .from(member)
-    .innerJoin(organization, eq(organization.id, member.organizationId))
-    .innerJoin(user, eq(user.id, member.userId))
-    .where(eq(member.userId, input.userId))
-    .orderBy(asc(member.createdAt));
-  const chosen =
-    memberships.find((m) => m.organizationId === input.activeOrganizationId) ?? memberships[0];
+  const { rows } = await pool.query<MembershipRow>({ ...actorStatement, values: [input.userId] });
+  const chosen = rows.find((m) => m.organizationId === input.activeOrganizationId) ?? rows[0];
   if (!chosen || !(roles as readonly string[]).includes(chosen.role)) return null;
   const role = chosen.role as Role;
-
-  const [household, assigned] = await Promise.all([
-    role === "homeowner"
-      ? db.select({ homeId: householdMembers.homeId }).from(householdMembers).where(eq(householdMembers.userId, input.userId))
-      : Promise.resolve([]),
-    role === "installer"
-      ? db.select({ homeId: homeAssignments.homeId }).from(homeAssignments).where(eq(homeAssignments.userId, input.userId))
-      : Promise.resolve([]),
-  ]);
-
+  // Household and assignment rows only count for the roles they belong to.
   return {
     userId: input.userId,
     name: chosen.name,
@@ -40,7 +43,7 @@ export async function loadActor(input: { userId: string; activeOrganizationId: s
     role,
     organizationId: chosen.organizationId,
     organizationName: chosen.organizationName,
-    householdHomeIds: household.map((h) => h.homeId),
-    assignedHomeIds: assigned.map((h) => h.homeId),
+    householdHomeIds: role === "homeowner" ? chosen.householdHomeIds : [],
+    assignedHomeIds: role === "installer" ? chosen.assignedHomeIds : [],
   };
 }

@@ -2,6 +2,7 @@ import "server-only";
 import type { Transaction } from "@/db/client";
 import { auditEvents } from "@/db/schema";
 import type { Actor } from "@/lib/permissions";
+import { canonicalJson } from "@/lib/zones/content-hash";
 
 export interface FieldChange {
   field: string;
@@ -33,7 +34,8 @@ export function diffFields<T extends Record<string, unknown>>(before: T, after: 
   const changes: FieldChange[] = [];
   for (const [field, value] of Object.entries(after)) {
     if (value === undefined) continue;
-    if (JSON.stringify(before[field]) !== JSON.stringify(value)) changes.push({ field, before: before[field], after: value });
+    // Canonical JSON: jsonb hands objects back with its own key order.
+    if (canonicalJson(before[field]) !== canonicalJson(value)) changes.push({ field, before: before[field], after: value });
   }
   return changes;
 }

@@ -660,6 +660,7 @@ export async function restoreHomeBackup({
         expectedVersion: null,
         action: "zone:edit",
         kind: "zone.restored-from-backup",
+        templateOverrides: "skip",
         summary: `Restored “${name}” from a backup made ${made} UTC`,
         message: `Restored from a backup made ${made} UTC`,
         apply: async (tx2, zone) => {

@@ -1,4 +1,6 @@
 import "server-only";
+import { createHash } from "node:crypto";
+import { LRUCache } from "lru-cache";
 import { and, asc, count, eq, inArray, max, sql } from "drizzle-orm";
 import { db, pool, type Transaction } from "@/db/client";
 import { devices, modelProfiles, sources, streamPresets, toneCurveBands, toneCurves, user, zones, type Zone } from "@/db/schema";
@@ -23,6 +25,7 @@ import {
   type SourceForm,
   type ZoneSettings,
 } from "@/lib/validation/board";
+import { canonicalJson } from "@/lib/zones/content-hash";
 
 // The zone board: one read that builds the whole board, and every write the
 // board makes. All writes go through changeZone (version check, revision,
@@ -120,13 +123,20 @@ const curvesSql = `
  * Named (prepared) statements: the board statement takes PostgreSQL longer to
  * plan than to run, so each connection plans it once. The JSON comes back as
  * text, so the board route passes some 120 KB through without parsing and
- * re-serialising it.
+ * re-serialising it. Both board statements return the version stamps kept by
+ * the triggers of drizzle/0002 (homes.board_version, library_versions.curves).
  */
+const libraryVersionSql = `coalesce((select lv.curves from library_versions lv where lv.organization_id = $1), 0)::text`;
 const statements = {
-  board: {
-    name: "zw_board_v2",
+  stamp: {
+    name: "zw_board_stamp_v1",
     text: `select h.id, h.organization_id as "organizationId", h.name, h.household_name as "householdName", h.city,
-                  h.service_plan as "servicePlan",
+                  h.service_plan as "servicePlan", h.board_version::text as "boardVersion", ${libraryVersionSql} as "libraryVersion"
+           from homes h where h.id = $2 and h.organization_id = $1`,
+  },
+  board: {
+    name: "zw_board_v3",
+    text: `select h.board_version::text as "boardVersion", ${libraryVersionSql} as "libraryVersion",
                   (${columnsSql("z.home_id = $2")})::text as zones, (${curvesSql})::text as curves
            from homes h where h.id = $2 and h.organization_id = $1`,
   },
@@ -152,34 +162,78 @@ export function boardPermissions(actor: Actor, home: HomeRef): BoardPermissions 
   };
 }
 
+interface CachedColumns {
+  boardVersion: string;
+  libraryVersion: string;
+  /** `,"curves":[…],"zones":[…]}` as UTF-8: the part of the answer every reader of this home shares. */
+  tail: Buffer;
+}
+
 /**
- * The board of one home as JSON text, ready to send, from one statement (home,
- * columns and library). The home checks are those of getHomeForActor: another
- * company's home, or someone else's household, is "not found"; a role that may
- * not read it is refused.
+ * The shared part of recent boards, per process, keyed by home and valid while
+ * the home's board version and the company's library version are unchanged.
+ * The versions move in the same transaction as any change (database triggers),
+ * so a stale entry is never served, from this process or any other.
  */
-export async function getBoardJson({ actor, homeId }: { actor: Actor; homeId: string }): Promise<string> {
-  const result = await pool.query<BoardDto["home"] & { organizationId: string; zones: string; curves: string }>({
-    ...statements.board,
-    values: [actor.organizationId, homeId],
-  });
-  const row = result.rows[0];
-  if (!row) throw new AppError("home:not-found");
-  const home = { id: row.id, organizationId: row.organizationId };
+const columnsCache = new LRUCache<string, CachedColumns>({
+  maxSize: 64 * 1024 * 1024,
+  sizeCalculation: (entry) => entry.tail.byteLength + 128,
+});
+
+export interface BoardBody {
+  /** Changes whenever anything in the answer would: the home, its zones, the library, or who asks. */
+  etag: string;
+  body: Uint8Array<ArrayBuffer>;
+}
+
+/**
+ * The board of one home as JSON, ready to send. The home checks are those of
+ * getHomeForActor: another company's home, or someone else's household, is
+ * "not found"; a role that may not read it is refused. A small stamp query
+ * comes first; the columns and library are built by PostgreSQL only when the
+ * versions differ from the cached ones.
+ */
+export async function getBoardBody({ actor, homeId }: { actor: Actor; homeId: string }): Promise<BoardBody> {
+  type Stamp = BoardDto["home"] & { organizationId: string; boardVersion: string; libraryVersion: string };
+  const stamp = (await pool.query<Stamp>({ ...statements.stamp, values: [actor.organizationId, homeId] })).rows[0];
+  if (!stamp) throw new AppError("home:not-found");
+  const home = { id: stamp.id, organizationId: stamp.organizationId };
   if (!can(actor, "home:read", home) || !can(actor, "zone:read", home)) {
     if (actor.role === "homeowner") throw new AppError("home:not-found");
     throw new AppError("auth:forbidden");
   }
+  const key = `${stamp.organizationId}/${stamp.id}`;
+  let columns = columnsCache.get(key);
+  if (!columns || columns.boardVersion !== stamp.boardVersion || columns.libraryVersion !== stamp.libraryVersion) {
+    const result = await pool.query<{ boardVersion: string; libraryVersion: string; zones: string; curves: string }>({
+      ...statements.board,
+      values: [actor.organizationId, homeId],
+    });
+    const row = result.rows[0];
+    if (!row) throw new AppError("home:not-found");
+    columns = {
+      boardVersion: row.boardVersion,
+      libraryVersion: row.libraryVersion,
+      tail: Buffer.from(`,"curves":${row.curves},"zones":${row.zones}}`),
+    };
+    columnsCache.set(key, columns);
+  }
   const head: Omit<BoardDto, "curves" | "zones"> = {
-    home: { id: row.id, name: row.name, householdName: row.householdName, city: row.city, servicePlan: row.servicePlan },
+    home: { id: stamp.id, name: stamp.name, householdName: stamp.householdName, city: stamp.city, servicePlan: stamp.servicePlan },
     actor: { name: actor.name, role: actor.role },
     may: boardPermissions(actor, home),
   };
-  return `${JSON.stringify(head).slice(0, -1)},"curves":${row.curves},"zones":${row.zones}}`;
+  const headJson = JSON.stringify(head).slice(0, -1);
+  const headHash = createHash("sha1").update(headJson).digest("base64url").slice(0, 16);
+  const headBytes = Buffer.from(headJson);
+  const body = new Uint8Array(headBytes.byteLength + columns.tail.byteLength);
+  body.set(headBytes);
+  body.set(columns.tail, headBytes.byteLength);
+  return { etag: `W/"b${columns.boardVersion}.l${columns.libraryVersion}.${headHash}"`, body };
 }
 
 export async function getBoard(input: { actor: Actor; homeId: string }): Promise<BoardDto> {
-  return JSON.parse(await getBoardJson(input)) as BoardDto;
+  return JSON.parse(new TextDecoder().decode((await getBoardBody(input)).body)) as BoardDto;
 }
 
 // ── rules shared by the writes ─────────────────────────────────────────────
@@ -253,6 +307,27 @@ async function assertBandsFit(tx: Executor, zone: Zone, curveId: string | null) 
   }
 }
 
+/** The zone curve runs in series with each card's own curve: it must fit beside the largest. */
+async function assertZoneCurveFits(tx: Executor, zone: Zone, curveId: string | null) {
+  if (!curveId) return;
+  const profile = await profileOf(tx, zone);
+  if (!profile) return;
+  const cardCurves = await tx
+    .select({ id: sources.toneCurveId })
+    .from(sources)
+    .where(eq(sources.zoneId, zone.id))
+    .union(tx.select({ id: streamPresets.toneCurveId }).from(streamPresets).where(eq(streamPresets.zoneId, zone.id)));
+  const counts = await Promise.all(cardCurves.map((c) => bandCount(tx, c.id)));
+  const most = Math.max(0, ...counts);
+  const own = await bandCount(tx, curveId);
+  if (own + most > profile.eqBands) {
+    throw new AppError("zone:rule", {
+      message: `“${zone.name}” has ${profile.eqBands} EQ bands (${profile.name}); a card's own curve uses ${most} and this zone curve needs ${own}.`,
+      fieldErrors: { toneCurveId: [`Needs ${own} bands; only ${profile.eqBands - most} are free beside the cards' curves.`] },
+    });
+  }
+}
+
 async function assertInputFits(tx: Executor, zone: Zone, kind: SourceKind) {
   const profile = await profileOf(tx, zone);
   if (profile && !profile.inputs.includes(kind)) {
@@ -290,7 +365,8 @@ function changed<T extends Record<string, unknown>>(prefix: string, before: T, a
   const out: FieldChange[] = [];
   for (const [field, value] of Object.entries(after)) {
     if (value === undefined) continue;
-    if (JSON.stringify(before[field]) !== JSON.stringify(value)) out.push({ field: `${prefix}.${field}`, before: before[field], after: value });
+    // Compared as canonical JSON: jsonb hands objects back with its own key order.
+    if (canonicalJson(before[field]) !== canonicalJson(value)) out.push({ field: `${prefix}.${field}`, before: before[field], after: value });
   }
   return out;
 }
@@ -848,10 +924,11 @@ export async function attachCurve({
   actor: Actor;
   zoneId: string;
   version: number;
-  target: { type: "source" | "preset"; id: string };
+  target: { type: "source" | "preset"; id: string } | { type: "zone" };
   toneCurveId: string | null;
 }): Promise<BoardWriteResult> {
   let name: string | null = null;
+  const onZone = target.type === "zone";
   const result = await changeZone({
     actor,
     zoneId,
@@ -859,10 +936,22 @@ export async function attachCurve({
     action: "zone:edit",
     kind: toneCurveId ? "zone.curve-attached" : "zone.curve-detached",
     summary: (zone) =>
-      toneCurveId ? `Attached tone curve “${name}” in “${zone.name}”` : `Detached a tone curve in “${zone.name}”`,
+      onZone
+        ? toneCurveId
+          ? `Made “${name}” the zone curve of “${zone.name}”`
+          : `Removed the zone curve of “${zone.name}”`
+        : toneCurveId
+          ? `Attached tone curve “${name}” in “${zone.name}”`
+          : `Detached a tone curve in “${zone.name}”`,
     apply: async (tx, zone) => {
       await assertZoneOpenFor(tx, actor, zone);
       name = await curveName(tx, actor, toneCurveId);
+      if (target.type === "zone") {
+        if (zone.toneCurveId === toneCurveId) return [];
+        await assertZoneCurveFits(tx, zone, toneCurveId);
+        await tx.update(zones).set({ toneCurveId, updatedAt: new Date() }).where(eq(zones.id, zone.id));
+        return [{ field: "toneCurveId", before: zone.toneCurveId, after: toneCurveId }];
+      }
       const row = target.type === "source" ? await loadSource(tx, zone.id, target.id) : await loadPreset(tx, zone.id, target.id);
       if (row.toneCurveId === toneCurveId) return [];
       await assertBandsFit(tx, zone, toneCurveId);

@@ -10,6 +10,7 @@ import { type Actor, can } from "@/lib/permissions";
 import { MAX_LIBRARY_BANDS, type CurveCreateInput, type CurveUpdateInput } from "@/lib/validation/curves";
 import type { ConfigBand } from "@/lib/validation/zone-config";
 import { zoneBandProblem, type ZoneCurveUse } from "@/lib/zones/curve-fit";
+import { canonicalJson } from "@/lib/zones/content-hash";
 
 // The tone-curve library: list, read (with where each curve is attached),
 // create, edit (compare-and-set on the curve's version), duplicate, delete
@@ -342,7 +343,7 @@ export async function updateCurve({ actor, curveId, input }: { actor: Actor; cur
     if (input.description !== undefined && input.description !== row.description) {
       changes.push({ field: `curve.${row.id}.description`, before: row.description, after: input.description });
     }
-    const bandsChanged = input.bands !== undefined && JSON.stringify(input.bands) !== JSON.stringify(beforeBands);
+    const bandsChanged = input.bands !== undefined && canonicalJson(input.bands) !== canonicalJson(beforeBands);
     if (bandsChanged) changes.push({ field: `curve.${row.id}.bands`, before: describeBands(beforeBands), after: describeBands(input.bands!) });
     if (changes.length === 0) return { curve: await curveDetail(tx, actor, row), zones: [] };
 

@@ -258,6 +258,7 @@ export async function restoreRevision({
     expectedVersion,
     action: "zone:edit",
     kind: "zone.restored",
+    templateOverrides: "skip",
     summary: (z) => `Restored “${z.name}” to revision ${row.number}`,
     message: message ? `Restored from revision ${row.number}: ${message}` : `Restored from revision ${row.number}`,
     apply: async (tx, zone) => {

@@ -8,6 +8,7 @@ import { AppError } from "@/lib/errors";
 import { type Actor, can } from "@/lib/permissions";
 import { layoutDeviceProblems, type LayoutInput, type LayoutProfile } from "@/lib/validation/layout";
 import type { ConfigBand, OutputLayout } from "@/lib/validation/zone-config";
+import { canonicalJson } from "@/lib/zones/content-hash";
 
 // A zone's output layout: outputs (main pair, subwoofers, line out), the
 // crossover, distances, latencies, trims and polarity. Read with the device's
@@ -58,7 +59,7 @@ function describe(o: OutputLayout["outputs"][number]) {
 /** Field-by-field audit entries for a layout change. */
 function layoutChanges(before: OutputLayout, after: OutputLayout): FieldChange[] {
   const changes: FieldChange[] = [];
-  if (JSON.stringify(before.crossover) !== JSON.stringify(after.crossover)) {
+  if (canonicalJson(before.crossover) !== canonicalJson(after.crossover)) {
     changes.push({ field: "outputLayout.crossover", before: before.crossover, after: after.crossover });
   }
   const b = new Map(before.outputs.map((o) => [o.id, o]));

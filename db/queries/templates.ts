@@ -765,6 +765,7 @@ export async function applyTemplateUpdate({
         expectedVersion: version,
         action: "template:apply",
         kind: "zone.template-updated",
+        templateOverrides: "skip",
         summary: (zone) => `Updated zone “${zone.name}” to template “${template.name}” version ${template.version}`,
         message: `Template “${template.name}” version ${template.version}`,
         apply: async (tx, zone) => {
@@ -820,6 +821,7 @@ export async function setZoneOverrides({
     expectedVersion: version,
     action: "template:apply",
     kind: "zone.template-overrides",
+    templateOverrides: "skip",
     summary: (zone) => `Changed which fields “${zone.name}” keeps from template “${template.name}”`,
     apply: async (tx, zone) => {
       if (zone.templateId !== template.id) throw new AppError("zone:not-found");

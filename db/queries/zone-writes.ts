@@ -8,6 +8,7 @@ import { type Action, type Actor, can } from "@/lib/permissions";
 import { buildZoneConfig, type CurveForConfig } from "@/lib/zones/build-config";
 import { contentHash } from "@/lib/zones/content-hash";
 import type { ZoneConfig } from "@/lib/validation/zone-config";
+import { addOverrides, overridePathsForEdit } from "@/lib/zones/template-merge";
 
 // The one path by which a zone's desired configuration changes. Every change:
 // locks the zone row, checks tenant, role and the version it was based on,
@@ -128,6 +129,13 @@ export interface ZoneChangeInput {
   summary: string | ((zone: Zone) => string);
   message?: string | null;
   apply: (tx: Transaction, zone: Zone) => Promise<FieldChange[]>;
+  /**
+   * A zone made from a template remembers the fields edited in the zone itself
+   * (`zones.overrides`), so a later template update keeps them. "skip" for
+   * writes that are not local edits: a template update, setting the overrides
+   * themselves, restoring a revision or a backup, rolling back.
+   */
+  templateOverrides?: "track" | "skip";
 }
 
 /**
@@ -147,13 +155,19 @@ export async function changeZone(input: ZoneChangeInput): Promise<ZoneChangeResu
  */
 export async function changeZoneInTransaction(
   tx: Transaction,
-  { actor, zoneId, expectedVersion, action, kind, summary, message, apply }: ZoneChangeInput,
+  { actor, zoneId, expectedVersion, action, kind, summary, message, apply, templateOverrides = "track" }: ZoneChangeInput,
 ): Promise<ZoneChangeResult> {
   const zone = await loadZoneForActor({ actor, zoneId, action, tx, forUpdate: true });
   if (expectedVersion !== null && expectedVersion !== zone.version) {
     throw new AppError("zone:stale", { details: { currentVersion: zone.version } });
   }
+  const tracked = zone.templateId !== null && templateOverrides === "track" ? await loadZoneConfig(tx, zoneId) : null;
   const changes = await apply(tx, zone);
+  if (tracked) {
+    const paths = overridePathsForEdit(tracked, await loadZoneConfig(tx, zoneId));
+    const next = addOverrides(zone.overrides, paths);
+    if (next.length !== zone.overrides.length) await tx.update(zones).set({ overrides: next }).where(eq(zones.id, zoneId));
+  }
   const [updated] = await tx
     .update(zones)
     .set({ version: sql`${zones.version} + 1`, updatedAt: new Date() })

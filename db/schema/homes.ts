@@ -1,5 +1,5 @@
 import { relations } from "drizzle-orm";
-import { index, integer, pgTable, primaryKey, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import { bigint, index, integer, pgTable, primaryKey, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { organization, user } from "./auth";
 
 /** A client home looked after by an integrator company. */
@@ -16,6 +16,12 @@ export const homes = pgTable(
     servicePlan: text().notNull().default("standard"),
     notes: text().notNull().default(""),
     version: integer().notNull().default(1),
+    /**
+     * Bumped by database triggers (drizzle/0002) whenever anything the zone board
+     * shows of this home changes: zones, sources, presets, devices, clips. The
+     * board's cache and ETag rest on it; nothing in the app writes it.
+     */
+    boardVersion: bigint({ mode: "number" }).notNull().default(0),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },

@@ -1,9 +1,20 @@
 import { relations } from "drizzle-orm";
-import { boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import { bigint, boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import type { ZoneConfig, bandTypes } from "@/lib/validation/zone-config";
 
 type BandType = (typeof bandTypes)[number];
 import { organization, user } from "./auth";
+
+/**
+ * One row per company: bumped by database triggers (drizzle/0002) whenever a
+ * tone curve or band of its library changes (the board shows the library).
+ */
+export const libraryVersions = pgTable("library_versions", {
+  organizationId: text()
+    .primaryKey()
+    .references(() => organization.id, { onDelete: "cascade" }),
+  curves: bigint({ mode: "number" }).notNull().default(0),
+});
 
 /** A named parametric EQ from the company's library. */
 export const toneCurves = pgTable(

@@ -90,6 +90,8 @@ export const auditEvents = pgTable(
   (t) => [
     index("audit_events_org_created_idx").on(t.organizationId, t.createdAt),
     index("audit_events_home_created_idx").on(t.homeId, t.createdAt),
+    index("audit_events_zone_created_idx").on(t.zoneId, t.createdAt),
+    index("audit_events_actor_created_idx").on(t.organizationId, t.actorUserId, t.createdAt),
   ],
 );
 

@@ -36,9 +36,11 @@ export const optimistic = {
     return next;
   },
 
-  attachCurve: (zoneId: string, target: { type: "source" | "preset"; id: string }, toneCurveId: string | null) => (board: BoardDto) =>
+  attachCurve: (zoneId: string, target: { type: "source" | "preset"; id: string } | { type: "zone" }, toneCurveId: string | null) => (board: BoardDto) =>
     withZone(board, zoneId, (z) =>
-      target.type === "source"
+      target.type === "zone"
+        ? { ...z, toneCurveId }
+        : target.type === "source"
         ? { ...z, sources: z.sources.map((s) => (s.id === target.id ? { ...s, toneCurveId } : s)) }
         : { ...z, presets: z.presets.map((p) => (p.id === target.id ? { ...p, toneCurveId } : p)) },
     ),

@@ -53,6 +53,24 @@ function bandsOf(board: BoardDto, curveId: string | null) {
   return board.curves.find((c) => c.id === curveId)?.bands.length ?? 0;
 }
 
+/**
+ * Why a library curve may not become this zone's curve, or null. The zone curve
+ * runs in series with each card's own curve, so it must fit beside the largest.
+ */
+export function zoneCurveRefusal(board: BoardDto, zone: ZoneColumnDto, curveId: string): string | null {
+  const edit = zoneEditRefusal(board, zone);
+  if (edit) return edit;
+  if (zone.eqBands !== null) {
+    const need = bandsOf(board, curveId);
+    const cards = [...zone.sources, ...zone.presets].map((c) => bandsOf(board, c.toneCurveId));
+    const most = Math.max(0, ...cards);
+    if (need + most > zone.eqBands) {
+      return `“${zone.name}” has ${zone.eqBands} EQ bands; a card's own curve uses ${most} and this zone curve needs ${need}.`;
+    }
+  }
+  return null;
+}
+
 /** Why a library curve may not go onto a card of this zone, or null. */
 export function curveRefusal(board: BoardDto, zone: ZoneColumnDto, curveId: string): string | null {
   const edit = zoneEditRefusal(board, zone);

@@ -426,6 +426,7 @@ async function restoreForRollback(tx: Transaction, actor: Actor, scope: Extract<
     expectedVersion: scope.expectedVersion ?? null,
     action: "zone:edit",
     kind: "zone.rolled-back",
+    templateOverrides: "skip",
     summary: (z) => `Rolled “${z.name}” back to revision ${revision.number}`,
     message: `Rolled back to revision ${revision.number}`,
     apply: async (innerTx, locked) => {

@@ -73,7 +73,11 @@ export const transferPresetSchema = z.object({
 
 export const attachCurveSchema = z.object({
   version: versionSchema,
-  target: z.object({ type: z.enum(["source", "preset"]), id: z.uuid() }),
+  /** A source or preset card, or the zone itself (its zone curve). */
+  target: z.discriminatedUnion("type", [
+    z.object({ type: z.enum(["source", "preset"]), id: z.uuid() }),
+    z.object({ type: z.literal("zone") }),
+  ]),
   toneCurveId: toneCurveIdSchema,
 });
 

@@ -1,4 +1,4 @@
-// Zone-board benchmark: `npx tsx tests/bench/board-api.ts [--no-build] [--duration=10] [--keep]`
+// Zone-board benchmark: `npx tsx tests/bench/board-api.ts [--no-build] [--duration=10] [--keep] [--no-browser] [--profile] [--only=board]`
 //
 // Seeds a synthetic company into its own database on the test cluster (2,000
 // homes with 5 zones each, plus one home of 12 zones × 40 cards), builds and
@@ -7,7 +7,8 @@
 //   - GET /api/health                     (no session, no database: the floor)
 //   - GET /api/homes (2,000 homes)        (by name, and sorted by zone count)
 //   - GET /api/homes/:id/board            (12 zones × 40 cards)
-// It prints p50/p95/p99 latency and requests per second for each, and checks the
+// It prints p50/p95/p99 latency, requests per second and the CPU time the app
+// and PostgreSQL spent per request for each, and checks the
 // targets: board p95 < 50 ms and within 3× the floor's p95. Then (unless
 // --no-browser) it opens that board in Chromium and reports how long it takes
 // to show, the long tasks while it loads, and the frame gaps while a preset is
@@ -23,7 +24,7 @@ import { hashPassword } from "better-auth/crypto";
 import pg from "pg";
 import { startLocalPostgres, testCluster } from "@/db/local-postgres";
 import { runMigrations } from "@/db/migrate";
-import { bin, root, runStep, stopChildren } from "@/lib/cli/processes";
+import { bin, root, runStep, startChild, stopChildren, waitForHttp } from "@/lib/cli/processes";
 import { serviceEnv, startApp, testPorts } from "@/lib/cli/services";
 import { modelProfiles } from "@/lib/devices/model-profiles";
 import { defaultDeviceSettings } from "@/lib/validation/zone-config";
@@ -264,6 +265,8 @@ interface Figures {
   name: string;
   /** CPU time the app process spent per answered request (user + system), less sensitive to a busy machine than latency. */
   cpuMsPerRequest: number;
+  /** CPU time PostgreSQL's processes spent per answered request. */
+  dbCpuMsPerRequest: number;
   requests: number;
   non2xx: number;
   errors: number;
@@ -287,6 +290,17 @@ function appPid(port: number): number | null {
   return match ? Number(match[1]) : null;
 }
 
+/** The PostgreSQL cluster's processes (postmaster and its children: backends, writers). */
+function clusterPids(dataDir: string): number[] {
+  try {
+    const postmaster = Number(fs.readFileSync(path.join(dataDir, "postmaster.pid"), "utf8").split("\n")[0]);
+    const children = (spawnSync("pgrep", ["-P", String(postmaster)], { encoding: "utf8" }).stdout ?? "").split("\n").filter(Boolean).map(Number);
+    return [postmaster, ...children];
+  } catch {
+    return [];
+  }
+}
+
 function cpuMs(pid: number | null): number {
   if (!pid) return Number.NaN;
   try {
@@ -298,7 +312,7 @@ function cpuMs(pid: number | null): number {
   }
 }
 
-async function measure(name: string, url: string, cookie: string | null, seconds: number, pid: number | null): Promise<Figures> {
+async function measure(name: string, url: string, cookie: string | null, seconds: number, pid: number | null, dbPids: () => number[]): Promise<Figures> {
   const headers: Record<string, string> = { accept: "application/json" };
   if (cookie) headers.cookie = cookie;
   // Warm-up (JIT, pools, caches) without recording.
@@ -308,6 +322,7 @@ async function measure(name: string, url: string, cookie: string | null, seconds
   const latencies: number[] = [];
   let bytes = 0;
   const cpuBefore = cpuMs(pid);
+  const dbBefore = new Map(dbPids().map((p) => [p, cpuMs(p)]));
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
     const instance = autocannon({ url, connections: CONNECTIONS, duration: seconds, headers }, (err, res) => (err ? reject(err) : resolve(res)));
     instance.on("response", (_client: unknown, statusCode: number, resBytes: number, responseTime: number) => {
@@ -316,10 +331,17 @@ async function measure(name: string, url: string, cookie: string | null, seconds
     });
   });
   const cpuAfter = cpuMs(pid);
+  // Backends that lived through the run (the app's pool keeps its connections).
+  let dbMs = 0;
+  for (const [p, before] of dbBefore) {
+    const after = cpuMs(p);
+    if (Number.isFinite(after) && Number.isFinite(before)) dbMs += after - before;
+  }
   latencies.sort((a, b) => a - b);
   return {
     name,
     cpuMsPerRequest: (cpuAfter - cpuBefore) / Math.max(1, result.requests.total),
+    dbCpuMsPerRequest: dbMs / Math.max(1, result.requests.total),
     requests: result.requests.total,
     non2xx: result.non2xx,
     errors: result.errors + result.timeouts,
@@ -334,11 +356,11 @@ async function measure(name: string, url: string, cookie: string | null, seconds
 function table(rows: Figures[]) {
   const fmt = (n: number) => (Number.isFinite(n) ? n.toFixed(1) : "—");
   console.log(
-    `\n${"route".padEnd(34)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"req/s".padStart(8)} ${"app CPU/req".padStart(12)} ${"size".padStart(9)} ${"non-2xx".padStart(8)}`,
+    `\n${"route".padEnd(34)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"req/s".padStart(8)} ${"app CPU/req".padStart(12)} ${"db CPU/req".padStart(11)} ${"size".padStart(9)} ${"non-2xx".padStart(8)}`,
   );
   for (const r of rows) {
     console.log(
-      `${r.name.padEnd(34)} ${fmt(r.p50).padStart(8)} ${fmt(r.p95).padStart(8)} ${fmt(r.p99).padStart(8)} ${fmt(r.rps).padStart(8)} ${`${fmt(r.cpuMsPerRequest)} ms`.padStart(12)} ${`${(r.bytes / 1024).toFixed(1)} KB`.padStart(9)} ${String(r.non2xx + r.errors).padStart(8)}`,
+      `${r.name.padEnd(34)} ${fmt(r.p50).padStart(8)} ${fmt(r.p95).padStart(8)} ${fmt(r.p99).padStart(8)} ${fmt(r.rps).padStart(8)} ${`${fmt(r.cpuMsPerRequest)} ms`.padStart(12)} ${`${fmt(r.dbCpuMsPerRequest)} ms`.padStart(11)} ${`${(r.bytes / 1024).toFixed(1)} KB`.padStart(9)} ${String(r.non2xx + r.errors).padStart(8)}`,
     );
   }
 }
@@ -363,7 +385,14 @@ async function main() {
   }
   const base = `http://localhost:${testPorts.app}`;
   console.log(`Bench: starting the production app on ${base}…`);
-  await startApp(testPorts, env, "production", true);
+  // --profile: the app writes a V8 CPU profile when it stops (open it in Chromium's DevTools).
+  const profileDir = path.join(root, ".data/profiles");
+  if (flag("profile")) {
+    startChild("app", process.execPath, [`--cpu-prof`, `--cpu-prof-dir=${profileDir}`, path.join(root, "node_modules/next/dist/bin/next"), "start", "-p", String(testPorts.app)], env, true);
+    await waitForHttp(`${base}/sign-in`, 120_000, (s) => s === 200);
+  } else {
+    await startApp(testPorts, env, "production", true);
+  }
   try {
     const cookie = await signIn(base);
     const board = await fetch(`${base}/api/homes/${data.bigHomeId}/board`, { headers: { cookie } });
@@ -375,12 +404,18 @@ async function main() {
 
     console.log(`Bench: ${CONNECTIONS} connections, ${DURATION_S} s per route (after a 2 s warm-up)…`);
     const pid = appPid(testPorts.app);
+    const dbPids = () => clusterPids(testCluster.dataDir);
     const rows: Figures[] = [];
-    rows.push(await measure("GET /api/health (floor)", `${base}/api/health`, null, DURATION_S, pid));
-    rows.push(await measure("GET /api/homes (2,000, by name)", `${base}/api/homes`, cookie, DURATION_S, pid));
-    rows.push(await measure("GET /api/homes (2,000, by zones)", `${base}/api/homes?sort=zones&dir=desc`, cookie, DURATION_S, pid));
-    rows.push(await measure("GET board (12 zones × 40 cards)", `${base}/api/homes/${data.bigHomeId}/board`, cookie, DURATION_S, pid));
+    // --only=board (with --profile) measures the board alone, for a profile of it and nothing else.
+    const onlyBoard = args.includes("--only=board");
+    if (!onlyBoard) {
+      rows.push(await measure("GET /api/health (floor)", `${base}/api/health`, null, DURATION_S, pid, dbPids));
+      rows.push(await measure("GET /api/homes (2,000, by name)", `${base}/api/homes`, cookie, DURATION_S, pid, dbPids));
+      rows.push(await measure("GET /api/homes (2,000, by zones)", `${base}/api/homes?sort=zones&dir=desc`, cookie, DURATION_S, pid, dbPids));
+    }
+    rows.push(await measure("GET board (12 zones × 40 cards)", `${base}/api/homes/${data.bigHomeId}/board`, cookie, DURATION_S, pid, dbPids));
     table(rows);
+    if (onlyBoard) return;
 
     if (!flag("no-browser")) {
       const b = await browserFigures(base, cookie, data.bigHomeId);

@@ -1,23 +1,17 @@
-import AxeBuilder from "@axe-core/playwright";
-import { expect, test, type Page } from "@playwright/test";
+import { expect, test } from "@playwright/test";
+import { seriousViolations } from "./fixtures/axe";
 import { HouseholdPage } from "./pages/household-page";
 import { signInAs } from "./pages/sign-in-page";
 
-// The homeowner story: a household member reorders their favourite stations —
-// with the mouse and with the keyboard — and finds the new order after a reload.
+// The household view: plain words, reordering stations by keyboard, undo,
+// refusals, accessibility. The mouse reorder that ends applied at home is the
+// homeowner's story in stories.spec.ts.
 
 const homeowner = "elena@lindqvist.example";
 
 test.beforeEach(async ({ page }) => {
   await signInAs(page, homeowner);
 });
-
-async function seriousViolations(page: Page) {
-  const results = await new AxeBuilder({ page }).analyze();
-  return results.violations
-    .filter((v) => v.impact === "serious" || v.impact === "critical")
-    .map((v) => `${v.id} (${v.impact}): ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`);
-}
 
 test("the household sees their own home in plain words, nothing technical", async ({ page }) => {
   const household = new HouseholdPage(page);
@@ -30,22 +24,6 @@ test("the household sees their own home in plain words, nothing technical", asyn
   await expect(household.zone("Patio")).toContainText("Switch the room on: no");
   const text = await page.locator("main").innerText();
   for (const word of ["FW4-", "serial", "Linkwitz", "dB", "Marchetti"]) expect(text).not.toContain(word);
-});
-
-test("reorders stations with the mouse; the order is saved, sent and still there after a reload", async ({ page }) => {
-  const household = new HouseholdPage(page);
-  await household.goto();
-  const before = await household.stationNames("Kitchen");
-  expect(before.length).toBeGreaterThanOrEqual(3);
-  await household.dragStation("Kitchen", before[2], before[0]);
-  const expected = [before[2], before[0], before[1], ...before.slice(3)];
-  await expect.poll(() => household.stationNames("Kitchen")).toEqual(expected);
-  // Saving starts a push (a job on the queue): allow it a moment.
-  await expect(household.saveResult("Kitchen")).toContainText(`${before[2]} moved to number 1. Saved.`, { timeout: 20_000 });
-  // A push carries it; the view says where it is, never "applied" before the device reports it.
-  await expect(household.delivery("Kitchen")).toHaveText(/Sending to your system|Your system has these settings|will be sent to your system/);
-  await page.reload();
-  await expect.poll(() => household.stationNames("Kitchen")).toEqual(expected);
 });
 
 test("reorders stations with the keyboard, with what happens read out", async ({ page }) => {

@@ -1,5 +1,5 @@
 import { expect, test } from "@playwright/test";
-import * as wavefileModule from "wavefile";
+import { sineWav as sine } from "./fixtures/wav";
 import { LevelMatchPage } from "./pages/level-match-page";
 import { signInAs } from "./pages/sign-in-page";
 
@@ -7,19 +7,6 @@ import { signInAs } from "./pages/sign-in-page";
 // see what they measure, apply the suggestions. Expected readings: EBU Tech
 // 3341 (v4) Table 1 cases 1 and 2 — a stereo 1 kHz sine at −23 dBFS reads
 // −23.0 LUFS and at −33 dBFS −33.0 LUFS, so the second needs +10 dB to match.
-
-type WaveFileClass = typeof wavefileModule.WaveFile;
-const WaveFile: WaveFileClass =
-  (Reflect.get(wavefileModule, "WaveFile") as WaveFileClass | undefined) ??
-  (Reflect.get(wavefileModule, "default") as { WaveFile: WaveFileClass }).WaveFile;
-
-function sine(levelDbfs: number, seconds: number): Buffer {
-  const amp = Math.pow(10, levelDbfs / 20);
-  const samples = Array.from({ length: seconds * 48_000 }, (_, i) => Math.round(amp * Math.sin((2 * Math.PI * 1000 * i) / 48_000) * 8388607));
-  const wav = new WaveFile();
-  wav.fromScratch(2, 48_000, "24", [samples, samples]);
-  return Buffer.from(wav.toBuffer());
-}
 
 test("upload two clips and apply the suggestions", async ({ page }) => {
   await signInAs(page, "theo@fernhill.example");

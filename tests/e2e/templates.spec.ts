@@ -2,34 +2,8 @@ import { expect, test } from "@playwright/test";
 import { signInAs } from "./pages/sign-in-page";
 import { TemplatesPage } from "./pages/templates-page";
 
-// The installer story: duplicate a zone template into a new home, bound to a
-// spare device, in a few clicks.
-
-test("an installer duplicates a zone template into a new home", async ({ page }) => {
-  await signInAs(page, "jonah@fernhill.example");
-  const library = new TemplatesPage(page);
-  await library.goto();
-  await expect(library.card("Outdoor pair with bass lift")).toBeVisible();
-  // Installers use and duplicate templates; editing is for integrators.
-  await expect(library.card("Outdoor pair with bass lift").getByRole("button", { name: /Delete/ })).toHaveCount(0);
-
-  const dialog = await library.openApply("Outdoor pair with bass lift");
-  await dialog.newHome("Willow Row house", "Petrov family", "Millbrook");
-  await dialog.zoneName("Garden terrace");
-  // A device that cannot take it is listed with the reason, and cannot be chosen.
-  await expect(dialog.root.getByTestId("device-choices")).toContainText("FW4-10555");
-  await dialog.device("FWO-30388").check();
-  await dialog.submit();
-  await expect(dialog.root.getByTestId("apply-done")).toContainText("Made zone “Garden terrace” in Willow Row house (new home). Revision 1 is saved and ready to push.");
-
-  await dialog.root.getByRole("link", { name: "Open Willow Row house" }).click();
-  await expect(page.getByRole("heading", { name: "Willow Row house" })).toBeVisible();
-  await expect(page.getByText("Garden terrace").first()).toBeVisible();
-
-  // The library now counts the new zone.
-  await library.goto();
-  await expect(library.card("Outdoor pair with bass lift")).toContainText("4 zones");
-});
+// The template library. The installer's story (duplicate a template into a new
+// home and push it) is in stories.spec.ts.
 
 test("a device that cannot take the template is shown with the reason and cannot be picked", async ({ page }) => {
   await signInAs(page, "jonah@fernhill.example");

@@ -40,6 +40,17 @@ describe("PATCH /api/zones/:zoneId/settings", () => {
     expect(audit.changes).toContainEqual({ field: "zone.volumeCeiling", before: 70, after: 72 });
   });
 
+  it("records only the fields that changed, whatever key order the stored device settings come back in", async () => {
+    const zone = await zoneByName("Brightwater loft", "Studio");
+    const version = (await query<{ version: number }>("select version from zones where id = $1", [zone.id]))[0].version;
+    // The form sends every setting back; only the ceiling differs.
+    const [row] = await query<{ device_settings: Record<string, unknown> }>("select device_settings from zones where id = $1", [zone.id]);
+    const res = await patch(people.integrator, zone.id, { version, volumeCeiling: 66, deviceSettings: { ...row.device_settings } });
+    expect(res.status).toBe(200);
+    const [audit] = await query<{ changes: { field: string }[] }>("select changes from audit_events where zone_id = $1 order by id desc limit 1", [zone.id]);
+    expect(audit.changes.map((c) => c.field)).toEqual(["zone.volumeCeiling"]);
+  });
+
   it("refuses a turn-on volume above the ceiling with a field error and writes nothing", async () => {
     const zone = await zoneByName("Brightwater loft", "Bedroom");
     const before = await zoneFingerprint(zone.id);

@@ -53,7 +53,8 @@ export class BoardPage {
     await to.scrollIntoViewIfNeeded();
     const viewport = this.page.viewportSize()!;
     let start = (await from.boundingBox())!;
-    if (start.y < 0 || start.y + start.height > viewport.height) {
+    // Off screen either way (the curve tray scrolls sideways): bring it into view first.
+    if (start.y < 0 || start.y + start.height > viewport.height || start.x < 0 || start.x + start.width > viewport.width) {
       await from.scrollIntoViewIfNeeded();
       start = (await from.boundingBox())!;
     }

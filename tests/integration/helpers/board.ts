@@ -72,7 +72,7 @@ type RouteFn = Parameters<typeof callRoute>[0];
 export async function as(
   email: string,
   handler: RouteFn,
-  options: { method?: string; path: string; params?: Record<string, string>; body?: unknown },
+  options: { method?: string; path: string; params?: Record<string, string>; body?: unknown; headers?: Record<string, string> },
 ) {
   return callRoute(handler, { ...options, cookie: await signInAs(email) });
 }

@@ -24,9 +24,17 @@ type RouteFn = (request: Request, context: { params: Promise<Record<string, stri
 /** Call a route handler the way Next.js does, with a real Request. */
 export async function callRoute(
   handler: RouteFn,
-  options: { method?: string; path: string; params?: Record<string, string>; body?: unknown; cookie?: string; rawBody?: string },
+  options: {
+    method?: string;
+    path: string;
+    params?: Record<string, string>;
+    body?: unknown;
+    cookie?: string;
+    rawBody?: string;
+    headers?: Record<string, string>;
+  },
 ) {
-  const headers = new Headers({ accept: "application/json" });
+  const headers = new Headers({ accept: "application/json", ...options.headers });
   if (options.cookie) headers.set("cookie", options.cookie);
   if (options.body !== undefined || options.rawBody !== undefined) headers.set("content-type", "application/json");
   const request = new Request(`http://localhost:3000${options.path}`, {
@@ -42,7 +50,7 @@ export async function callRoute(
   } catch {
     json = text;
   }
-  return { status: response.status, json: json as Record<string, unknown> & { error?: { code: string; message: string; fieldErrors?: Record<string, string[]> } } };
+  return { status: response.status, headers: response.headers, text, json: json as Record<string, unknown> & { error?: { code: string; message: string; fieldErrors?: Record<string, string[]> } } };
 }
 
 export const people = {

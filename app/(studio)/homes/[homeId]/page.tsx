@@ -40,9 +40,9 @@ export default async function HomeBoardPage({ params }: { params: Promise<{ home
       <p className="mb-4 text-sm text-slate-600">
         {home.householdName} · {home.city} · {home.servicePlan} plan · {board.zones.length} zone{board.zones.length === 1 ? "" : "s"}
         {" · "}
-        <Link href={`/homes/${home.id}/activity`} className="text-accent-700 hover:underline">Activity</Link>
+        <Link href={`/homes/${home.id}/activity`} className="text-accent-700 underline underline-offset-2">Activity</Link>
         {" · "}
-        <Link href={`/homes/${home.id}/backup`} className="text-accent-700 hover:underline">Backup and restore</Link>
+        <Link href={`/homes/${home.id}/backup`} className="text-accent-700 underline underline-offset-2">Backup and restore</Link>
       </p>
       <ZoneBoard homeId={home.id} />
     </SWRProvider>

@@ -1,9 +1,18 @@
-import { getBoardJson } from "@/db/queries/board";
+import { getBoardBody } from "@/db/queries/board";
 import { apiHandler } from "@/lib/api/handler";
 import { homeIdParamsSchema } from "@/lib/validation/homes";
 
 // The whole zone board of one home in one answer (see db/queries/board.ts).
-export const GET = apiHandler({ params: homeIdParamsSchema }, async ({ actor, params }) => {
-  const body = await getBoardJson({ actor, homeId: params.homeId });
-  return new Response(body, { headers: { "content-type": "application/json", "cache-control": "no-store" } });
+// The browser keeps it and asks again with If-None-Match; an unchanged board
+// answers 304 without a body.
+export const GET = apiHandler({ params: homeIdParamsSchema }, async ({ actor, params, request }) => {
+  const { etag, body } = await getBoardBody({ actor, homeId: params.homeId });
+  const headers = { etag, "cache-control": "private, no-cache" };
+  const ifNoneMatch = request.headers.get("if-none-match");
+  if (ifNoneMatch && ifNoneMatch.split(",").some((tag) => tag.trim() === etag)) {
+    return new Response(null, { status: 304, headers });
+  }
+  return new Response(body, {
+    headers: { ...headers, "content-type": "application/json" },
+  });
 });
