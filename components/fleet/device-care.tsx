@@ -86,7 +86,7 @@ export function DeviceCare({ deviceId }: { deviceId: string }) {
           <dl className="mt-2 grid grid-cols-2 gap-x-3 gap-y-1 text-sm">
             <dt className="text-slate-500">Preset slots</dt>
             <dd className="tabular-nums">{d.model.presetSlots}</dd>
-            <dt className="text-slate-500">EQ bands per curve</dt>
+            <dt className="text-slate-500">EQ bands</dt>
             <dd className="tabular-nums">{d.model.eqBands}</dd>
             <dt className="text-slate-500">Subwoofer outputs</dt>
             <dd className="tabular-nums">{d.model.subwooferOutputs}</dd>

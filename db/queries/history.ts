@@ -1,10 +1,12 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, isNull, like, lt, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db/client";
-import { auditEvents, homes, member, user, zoneRevisions, zones, type Zone } from "@/db/schema";
+import { auditEvents, homes, member, pushTargets, user, zoneRevisions, zones, type Zone } from "@/db/schema";
 import { applyZoneConfig, CurveResolver } from "@/db/queries/apply-config";
-import { changeZone } from "@/db/queries/zone-writes";
+import { finishPushIfDone } from "@/db/queries/push-targets";
+import { changeZone, changeZoneInTransaction } from "@/db/queries/zone-writes";
 import { AppError } from "@/lib/errors";
+import { withJobs } from "@/lib/fleet/queue";
 import { type Actor, can, visibleHomeIds } from "@/lib/permissions";
 import { diffZoneConfigs, summarizeDiff, toAuditChanges, type ConfigDiff } from "@/lib/zones/config-diff";
 import { zoneConfigSchema, type ZoneConfig } from "@/lib/validation/zone-config";
@@ -287,25 +289,38 @@ export async function restoreRevision({
   };
 }
 
-/** Soft delete: the zone leaves the home; its revisions and audit trail stay readable. */
+/**
+ * Soft delete: the zone leaves the home; its revisions and audit trail stay
+ * readable. Push targets of the zone not sent yet are cancelled (their push
+ * finishes if nothing else is left); those already sent settle as usual.
+ */
 export async function deleteZone({ actor, zoneId, expectedVersion }: { actor: Actor; zoneId: string; expectedVersion: number }) {
-  const result = await changeZone({
-    actor,
-    zoneId,
-    expectedVersion,
-    action: "zone:delete",
-    kind: "zone.deleted",
-    summary: (z) => `Deleted zone “${z.name}”`,
-    apply: async (tx, zone) => {
-      const now = new Date();
-      // The device is released so it can serve another zone; the revisions keep its configuration.
-      await tx.update(zones).set({ deletedAt: now, deviceId: null }).where(eq(zones.id, zone.id));
-      return [
-        { field: "deletedAt", before: null, after: now.toISOString() },
-        ...(zone.deviceId ? [{ field: "deviceId", before: zone.deviceId, after: null }] : []),
-      ];
-    },
-  });
+  const result = await withJobs((tx, jobs) =>
+    changeZoneInTransaction(tx, {
+      actor,
+      zoneId,
+      expectedVersion,
+      action: "zone:delete",
+      kind: "zone.deleted",
+      summary: (z) => `Deleted zone “${z.name}”`,
+      apply: async (tx, zone) => {
+        const now = new Date();
+        // The device is released so it can serve another zone; the revisions keep its configuration.
+        await tx.update(zones).set({ deletedAt: now, deviceId: null }).where(eq(zones.id, zone.id));
+        const cancelled = await tx
+          .update(pushTargets)
+          .set({ state: "cancelled", lastError: `Zone “${zone.name}” was deleted before this was sent.`, updatedAt: sql`now()` })
+          .where(and(eq(pushTargets.zoneId, zone.id), eq(pushTargets.state, "queued")))
+          .returning({ pushId: pushTargets.pushId });
+        for (const pushId of new Set(cancelled.map((c) => c.pushId))) await finishPushIfDone(tx, pushId, jobs);
+        return [
+          { field: "deletedAt", before: null, after: now.toISOString() },
+          ...(zone.deviceId ? [{ field: "deviceId", before: zone.deviceId, after: null }] : []),
+          ...(cancelled.length ? [{ field: "pending push targets cancelled", before: null, after: cancelled.length }] : []),
+        ];
+      },
+    }),
+  );
   return { zoneId, version: result.version, deleted: true };
 }
 

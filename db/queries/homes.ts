@@ -1,7 +1,7 @@
 import "server-only";
-import { and, asc, count, desc, eq, ilike, inArray, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db/client";
-import { homeAssignments, homes } from "@/db/schema";
+import { homeAssignments, homes, zones } from "@/db/schema";
 import { recordAudit, diffFields } from "@/db/queries/audit";
 import { driftSummaryForHomes, type DriftCounts } from "@/db/queries/drift-summary";
 import { AppError } from "@/lib/errors";
@@ -49,29 +49,41 @@ export async function listHomes({ actor, query }: { actor: Actor; query: HomeLis
     filters.push(or(ilike(homes.name, pattern), ilike(homes.householdName, pattern), ilike(homes.city, pattern))!);
   }
   const where = and(...filters);
+  // Sorting by zone count needs every home's count: one grouped pass over the
+  // company's zones, joined, rather than a count per home. Otherwise the count
+  // is worked out only for the rows of the page (PostgreSQL defers it past LIMIT).
+  const byZones = query.sort === "zones";
+  const zoneCounts = db
+    .select({ homeId: zones.homeId, n: sql<number>`count(*)::int`.as("n") })
+    .from(zones)
+    .where(and(eq(zones.organizationId, actor.organizationId), isNull(zones.deletedAt)))
+    .groupBy(zones.homeId)
+    .as("zc");
+  const joinedCount = sql<number>`coalesce(${zoneCounts.n}, 0)`;
   const sortColumn = {
     name: homes.name,
     household: homes.householdName,
     city: homes.city,
-    zones: zoneCount,
+    zones: joinedCount,
     updated: homes.updatedAt,
   }[query.sort];
   const order = query.dir === "desc" ? desc(sortColumn) : asc(sortColumn);
 
+  const columns = {
+    id: homes.id,
+    name: homes.name,
+    householdName: homes.householdName,
+    city: homes.city,
+    servicePlan: homes.servicePlan,
+    updatedAt: homes.updatedAt,
+    zoneCount: byZones ? joinedCount : zoneCount,
+    offlineDevices,
+  };
+  const page = byZones
+    ? db.select(columns).from(homes).leftJoin(zoneCounts, eq(zoneCounts.homeId, homes.id)).where(where)
+    : db.select(columns).from(homes).where(where);
   const [rows, [{ total }]] = await Promise.all([
-    db
-      .select({
-        id: homes.id,
-        name: homes.name,
-        householdName: homes.householdName,
-        city: homes.city,
-        servicePlan: homes.servicePlan,
-        updatedAt: homes.updatedAt,
-        zoneCount,
-        offlineDevices,
-      })
-      .from(homes)
-      .where(where)
+    page
       .orderBy(order, asc(homes.id))
       .limit(query.pageSize)
       .offset((query.page - 1) * query.pageSize),

@@ -3,7 +3,7 @@ import { createHash } from "node:crypto";
 import { and, eq, inArray, sql } from "drizzle-orm";
 import { db, type Transaction } from "@/db/client";
 import { devices, modelProfiles, pushes, pushTargets, zoneRevisions, zones, type PushTargetState } from "@/db/schema";
-import type { CapabilityProfile } from "@/lib/fleet/capabilities";
+import type { CapabilityProfile } from "@/lib/zones/config-fits-device";
 import { resolveFromReport, type ReportFacts, type Resolution } from "@/lib/fleet/push-state";
 import { PGBOSS_SCHEMA, QUEUES, type JobRequest } from "@/lib/fleet/queue";
 import type { ZoneConfig } from "@/lib/validation/zone-config";

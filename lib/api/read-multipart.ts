@@ -1,5 +1,5 @@
 import "server-only";
-import { AppError } from "@/lib/errors";
+import { AppError, type ErrorCode } from "@/lib/errors";
 
 // Reads one uploaded file (plus the form's text fields) from a multipart
 // request without trusting its size: a declared Content-Length over the limit
@@ -27,7 +27,7 @@ export function formatBytes(n: number): string {
   return `${(n / (1024 * 1024)).toFixed(1).replace(/\.0$/, "")} MB`;
 }
 
-function tooLarge(maxBytes: number, what: string, size?: number): AppError {
+export function tooLarge(maxBytes: number, what: string, size?: number): AppError {
   return new AppError("request:too-large", {
     message: size
       ? `The ${what} is ${formatBytes(size)}; the limit is ${formatBytes(maxBytes)}. Nothing was read or stored.`
@@ -36,7 +36,8 @@ function tooLarge(maxBytes: number, what: string, size?: number): AppError {
   });
 }
 
-async function readBounded(body: ReadableStream<Uint8Array>, limit: number, onTooLarge: () => AppError): Promise<Uint8Array> {
+/** The whole body, or `onTooLarge()` as soon as it passes `limit` bytes (the rest is never read). */
+export async function readBounded(body: ReadableStream<Uint8Array>, limit: number, onTooLarge: () => AppError): Promise<Uint8Array> {
   const reader = body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -65,7 +66,7 @@ async function readBounded(body: ReadableStream<Uint8Array>, limit: number, onTo
  */
 export async function readMultipartFile(
   request: Request,
-  { maxBytes, field = "file", what = "file" }: { maxBytes: number; field?: string; what?: string },
+  { maxBytes, field = "file", what = "file", emptyCode = "request:invalid" }: { maxBytes: number; field?: string; what?: string; emptyCode?: ErrorCode },
 ): Promise<MultipartUpload> {
   const contentType = request.headers.get("content-type") ?? "";
   if (!contentType.toLowerCase().startsWith("multipart/form-data")) {
@@ -96,7 +97,7 @@ export async function readMultipartFile(
   }
   if (file.size > maxBytes) throw tooLarge(maxBytes, what, file.size);
   if (file.size === 0) {
-    throw new AppError("request:invalid", { message: `The chosen ${what} is empty.`, fieldErrors: { [field]: ["The file is empty."] } });
+    throw new AppError(emptyCode, { message: `The chosen ${what} is empty.`, fieldErrors: { [field]: ["The file is empty."] } });
   }
   const fields: Record<string, string> = {};
   for (const [k, v] of form.entries()) if (typeof v === "string") fields[k] = v;

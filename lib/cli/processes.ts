@@ -42,6 +42,21 @@ export function stopChildren() {
   children.length = 0;
 }
 
+/**
+ * `next build`. With NEXT_DIST_DIR set (side-by-side suites, the benchmark),
+ * Next.js adds that folder's type paths to tsconfig.json; the file is put back
+ * as it was, so a build never leaves the working tree changed.
+ */
+export async function buildNext(env: ChildEnv = {}): Promise<number> {
+  const tsconfig = path.join(root, "tsconfig.json");
+  const before = fs.readFileSync(tsconfig, "utf8");
+  try {
+    return await runStep(bin("next"), ["build"], env);
+  } finally {
+    if (fs.readFileSync(tsconfig, "utf8") !== before) fs.writeFileSync(tsconfig, before);
+  }
+}
+
 /** Run to completion, output inherited; returns the exit code. */
 export function runStep(command: string, args: string[], env: ChildEnv = {}): Promise<number> {
   return new Promise((resolve) => {

@@ -4,7 +4,7 @@ import { startLocalPostgres, demoCluster } from "@/db/local-postgres";
 import { runMigrations } from "@/db/migrate";
 import { seedDemo } from "@/db/seed";
 import { demoPassword } from "@/db/seed-data";
-import { bin, buildIsStale, runStep, stopChildren } from "./processes";
+import { buildIsStale, buildNext, stopChildren } from "./processes";
 import { demoPorts, serviceEnv, startApp, startFakes, startWorker } from "./services";
 
 async function main() {
@@ -25,7 +25,7 @@ async function main() {
 
   if (!dev && buildIsStale()) {
     console.log("Zonewright: building the app (first start or sources changed)…");
-    const code = await runStep(bin("next"), ["build"], env);
+    const code = await buildNext(env);
     if (code !== 0) {
       console.error("The build failed; see above.");
       shutdown(code);

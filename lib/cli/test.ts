@@ -7,7 +7,7 @@ import { startLocalPostgres, testCluster } from "@/db/local-postgres";
 import { runMigrations } from "@/db/migrate";
 import { resetAndSeed } from "@/db/reset";
 import { seedDemo } from "@/db/seed";
-import { bin, ensureDebianPackages, root, runStep, stopChildren } from "./processes";
+import { bin, buildNext, ensureDebianPackages, root, runStep, stopChildren } from "./processes";
 import { serviceEnv, startApp, startFakes, startWorker, testPorts } from "./services";
 
 interface Tally {
@@ -77,7 +77,7 @@ async function main() {
   if (!only || only === "e2e") {
     const env = { ...serviceEnv(testPorts, e2eDb.url, "test") };
     console.log("Tests: building the app for the browser tests…");
-    const buildCode = await runStep(bin("next"), ["build"], { ...env, NEXT_TELEMETRY_DISABLED: "1" });
+    const buildCode = await buildNext({ ...env, NEXT_TELEMETRY_DISABLED: "1" });
     if (buildCode !== 0) {
       failedSteps.push("build");
     } else {

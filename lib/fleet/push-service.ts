@@ -7,7 +7,7 @@ import { recordAudit } from "@/db/queries/audit";
 import { finishPushIfDone } from "@/db/queries/push-targets";
 import { changeZone, changeZoneInTransaction, loadZoneForActor } from "@/db/queries/zone-writes";
 import { AppError } from "@/lib/errors";
-import { checkCapabilities, type CapabilityProblem, type CapabilityProfile } from "@/lib/fleet/capabilities";
+import { checkCapabilities, type CapabilityProblem, type CapabilityProfile } from "@/lib/zones/config-fits-device";
 import { computeDrift, normalizeConfig } from "@/lib/fleet/drift";
 import { idempotencyKey, nextGeneration } from "@/lib/fleet/push-state";
 import { QUEUES, withJobs } from "@/lib/fleet/queue";

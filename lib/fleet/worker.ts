@@ -21,7 +21,7 @@ import {
   type TargetWork,
 } from "@/db/queries/push-targets";
 import { env } from "@/lib/env";
-import { checkCapabilities } from "@/lib/fleet/capabilities";
+import { checkCapabilities } from "@/lib/zones/config-fits-device";
 import type { FleetClient } from "@/lib/fleet/client";
 import { normalizeConfig } from "@/lib/fleet/drift";
 import { decideOnFailure, defaultRetryPolicy, retryDelayMs, targetStateLabels, type RetryPolicy } from "@/lib/fleet/push-state";

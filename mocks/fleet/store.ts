@@ -235,14 +235,16 @@ export function unsupportedReasons(modelProfileId: string, config: ZoneConfig): 
   if (config.presets.length > profile.presetSlots) {
     reasons.push(`${config.presets.length} stream presets, but the model has ${profile.presetSlots} preset slots`);
   }
-  const curves = [
-    { where: "zone curve", curve: config.zoneCurve },
+  // The DSP runs the zone curve in series with the playing card's curve.
+  const zoneBands = config.zoneCurve?.bands.length ?? 0;
+  if (zoneBands > profile.eqBands) reasons.push(`zone curve has ${zoneBands} EQ bands, but the model has ${profile.eqBands}`);
+  const cards = [
     ...config.sources.map((s) => ({ where: `source "${s.label}"`, curve: s.toneCurve })),
     ...config.presets.map((p) => ({ where: `preset "${p.name}"`, curve: p.toneCurve })),
   ];
-  for (const { where, curve } of curves) {
-    if (curve && curve.bands.length > profile.eqBands) {
-      reasons.push(`${where} has ${curve.bands.length} EQ bands, but the model allows ${profile.eqBands}`);
+  for (const { where, curve } of cards) {
+    if (curve && curve.bands.length + zoneBands > profile.eqBands) {
+      reasons.push(`${where} needs ${curve.bands.length + zoneBands} EQ bands with the zone curve, but the model has ${profile.eqBands}`);
     }
   }
   const missingKinds = [...new Set(config.sources.map((s) => s.kind))].filter((k) => !profile.inputs.includes(k));
@@ -757,7 +759,7 @@ export function createFleetStore(options: FleetStoreOptions = {}) {
       ];
       const lines = device.history.map((h) => `${h.at} ${h.level.padEnd(5)} ${h.unit.padEnd(7)} ${h.text}`);
       const status = [
-        `${iso()} INFO  dsp     ${profile?.eqBands ?? 0} EQ bands per curve, ${profile?.presetSlots ?? 0} preset slots`,
+        `${iso()} INFO  dsp     ${profile?.eqBands ?? 0} EQ bands, ${profile?.presetSlots ?? 0} preset slots`,
         `${iso()} INFO  amp     output stage temperature 41 C, no protection events`,
         `${iso()} INFO  net     rssi n/a (wired), rx errors 0, tx errors 0`,
         `${iso()} INFO  shadow  desired v${device.desired.version}, reported v${device.reported.version} (${device.reported.status ?? "none"})`,

@@ -24,7 +24,7 @@ import { hashPassword } from "better-auth/crypto";
 import pg from "pg";
 import { startLocalPostgres, testCluster } from "@/db/local-postgres";
 import { runMigrations } from "@/db/migrate";
-import { bin, root, runStep, startChild, stopChildren, waitForHttp } from "@/lib/cli/processes";
+import { buildNext, root, startChild, stopChildren, waitForHttp } from "@/lib/cli/processes";
 import { serviceEnv, startApp, testPorts } from "@/lib/cli/services";
 import { modelProfiles } from "@/lib/devices/model-profiles";
 import { defaultDeviceSettings } from "@/lib/validation/zone-config";
@@ -380,7 +380,7 @@ async function main() {
   const built = fs.existsSync(path.join(root, distDir, "BUILD_ID"));
   if (!flag("no-build") || !built) {
     console.log(`Bench: building the production app into ${distDir}…`);
-    const code = await runStep(bin("next"), ["build"], env);
+    const code = await buildNext(env);
     if (code !== 0) throw new Error("next build failed");
   }
   const base = `http://localhost:${testPorts.app}`;

@@ -126,7 +126,7 @@ describe("malformed backup files write nothing", () => {
       },
     });
     const res = await restore(body, { "content-type": "application/json", "content-length": String(50 * 1024 * 1024) });
-    await expectRefused(res, 413, "request:too-large", /The file is 50 MB; the limit is 5 MB/, before);
+    await expectRefused(res, 413, "request:too-large", /The backup file is 50 MB; the limit is 5 MB/, before);
     // A stream may pull ahead a little of its own accord; it is never read through.
     expect(pulled).toBeLessThan(1024 * 1024);
   });

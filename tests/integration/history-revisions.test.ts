@@ -282,3 +282,62 @@ describe("deleting a zone keeps its history", () => {
     expect((await del(await signInAs(people.integrator), zone.version + 1)).status).toBe(404);
   });
 });
+
+describe("deleting a zone with a push on its way", () => {
+  it("cancels the zone's targets not sent yet, finishes their push, and leaves sent ones alone", async () => {
+    const zone = await zoneIn("Nakagawa cottage", "Garden");
+    const other = await zoneIn("Nakagawa cottage", "Den");
+    const [org] = await query<{ organization_id: string }>("select organization_id from zones where id = $1", [zone.id]);
+    // A push of both zones: the garden's target still queued, the den's already sent.
+    const [push] = await query<{ id: string }>(
+      "insert into pushes (organization_id, scope_kind, scope_label) values ($1, 'home', 'Nakagawa cottage') returning id",
+      [org.organization_id],
+    );
+    const target = async (zoneId: string, state: string) => {
+      const [row] = await query<{ id: string }>(
+        `insert into push_targets (push_id, zone_id, device_id, revision_id, idempotency_key, state)
+         select $1, z.id, z.device_id, z.current_revision_id, z.current_revision_id || ':' || z.device_id, $2 from zones z where z.id = $3 returning id`,
+        [push.id, state, zoneId],
+      );
+      return row.id;
+    };
+    const queued = await target(zone.id, "queued");
+    const sent = await target(other.id, "awaiting_report");
+
+    const res = await callRoute(deleteRoute, {
+      method: "DELETE",
+      path: `/api/zones/${zone.id}?expectedVersion=${zone.version}`,
+      params: { zoneId: zone.id },
+      cookie: await signInAs(people.integrator),
+    });
+    expect(res.status).toBe(200);
+    const states = await query<{ id: string; state: string; last_error: string | null }>("select id, state, last_error from push_targets where push_id = $1", [push.id]);
+    expect(states.find((t) => t.id === queued)).toMatchObject({ state: "cancelled", last_error: "Zone “Garden” was deleted before this was sent." });
+    expect(states.find((t) => t.id === sent)?.state).toBe("awaiting_report");
+    // The den's target is still on its way, so the push runs on.
+    expect((await query<{ status: string }>("select status from pushes where id = $1", [push.id]))[0].status).toBe("running");
+    const [audit] = await query<{ changes: { field: string; after: unknown }[] }>("select changes from audit_events where zone_id = $1 order by id desc limit 1", [zone.id]);
+    expect(audit.changes).toContainEqual({ field: "pending push targets cancelled", before: null, after: 1 });
+
+    // A push whose only pending target belongs to the deleted zone ends at once, as cancelled.
+    const [solo] = await query<{ id: string }>(
+      "insert into pushes (organization_id, scope_kind, scope_label) values ($1, 'zone', 'Den') returning id",
+      [org.organization_id],
+    );
+    await query(
+      `insert into push_targets (push_id, zone_id, device_id, revision_id, idempotency_key, state)
+       select $1, z.id, z.device_id, z.current_revision_id, z.current_revision_id || ':' || z.device_id || ':solo', 'queued' from zones z where z.id = $2`,
+      [solo.id, other.id],
+    );
+    const den = await zoneIn("Nakagawa cottage", "Den");
+    const gone = await callRoute(deleteRoute, {
+      method: "DELETE",
+      path: `/api/zones/${den.id}?expectedVersion=${den.version}`,
+      params: { zoneId: den.id },
+      cookie: await signInAs(people.integrator),
+    });
+    expect(gone.status).toBe(200);
+    expect((await query<{ status: string }>("select status from pushes where id = $1", [solo.id]))[0].status).toBe("cancelled");
+  });
+});
+

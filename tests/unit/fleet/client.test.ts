@@ -258,7 +258,7 @@ describe("fleet client against the fake", () => {
     expect(error).toMatchObject({ code: "fleet:unsupported", status: 422, attempts: 1, retryable: false });
     expect(error.reasons).toEqual([
       "8 stream presets, but the model has 6 preset slots",
-      "zone curve has 7 EQ bands, but the model allows 5",
+      "zone curve has 7 EQ bands, but the model has 5",
       "the model has no optical input",
       "1 subwoofer outputs, but the model has 0",
     ]);

@@ -175,10 +175,10 @@ describe("deviceFitProblems", () => {
     };
     const problems = deviceFitProblems(tooMuch, outdoor);
     expect(problems, problems.join("\n")).toHaveLength(4);
-    expect(problems[0]).toMatch(/6 preset slots; this configuration has 7/);
-    expect(problems[1]).toMatch(/“TV” uses a HDMI ARC input/);
-    expect(problems[2]).toMatch(/“Busy” has 6 bands; .* at most 5/);
-    expect(problems[3]).toMatch(/1 subwoofer outputs; .* has 0/);
+    expect(problems[0]).toMatch(/7 stream presets, but .* has 6 preset slots/);
+    expect(problems[1]).toMatch(/zone curve “Busy” has 6 EQ bands, but .* has 5/);
+    expect(problems[2]).toMatch(/“TV” needs a HDMI ARC input/);
+    expect(problems[3]).toMatch(/1 subwoofer output, but .* has 0/);
     expect(deviceFitProblems(config, outdoor)).toEqual([]);
   });
 });
