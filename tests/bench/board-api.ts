@@ -7,6 +7,7 @@
 //   - GET /api/health                     (no session, no database: the floor)
 //   - GET /api/homes (2,000 homes)        (by name, and sorted by zone count)
 //   - GET /api/homes/:id/board            (12 zones × 40 cards)
+//   - the same board revalidated with If-None-Match (304, what SWR's refresh costs)
 // It prints p50/p95/p99 latency, requests per second and the CPU time the app
 // and PostgreSQL spent per request for each, and checks the
 // targets: board p95 < 50 ms and within 3× the floor's p95. Then (unless
@@ -312,8 +313,17 @@ function cpuMs(pid: number | null): number {
   }
 }
 
-async function measure(name: string, url: string, cookie: string | null, seconds: number, pid: number | null, dbPids: () => number[]): Promise<Figures> {
-  const headers: Record<string, string> = { accept: "application/json" };
+async function measure(
+  name: string,
+  url: string,
+  cookie: string | null,
+  seconds: number,
+  pid: number | null,
+  dbPids: () => number[],
+  options: { headers?: Record<string, string>; expect?: (status: number) => boolean } = {},
+): Promise<Figures> {
+  const ok = options.expect ?? ((status: number) => status >= 200 && status < 300);
+  const headers: Record<string, string> = { accept: "application/json", ...options.headers };
   if (cookie) headers.cookie = cookie;
   // Warm-up (JIT, pools, caches) without recording.
   await new Promise<void>((resolve, reject) => {
@@ -321,13 +331,16 @@ async function measure(name: string, url: string, cookie: string | null, seconds
   });
   const latencies: number[] = [];
   let bytes = 0;
+  let unexpected = 0;
   const cpuBefore = cpuMs(pid);
   const dbBefore = new Map(dbPids().map((p) => [p, cpuMs(p)]));
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
     const instance = autocannon({ url, connections: CONNECTIONS, duration: seconds, headers }, (err, res) => (err ? reject(err) : resolve(res)));
     instance.on("response", (_client: unknown, statusCode: number, resBytes: number, responseTime: number) => {
-      if (statusCode >= 200 && statusCode < 300) latencies.push(responseTime);
-      bytes = resBytes;
+      if (ok(statusCode)) {
+        latencies.push(responseTime);
+        bytes = resBytes;
+      } else unexpected += 1;
     });
   });
   const cpuAfter = cpuMs(pid);
@@ -343,7 +356,7 @@ async function measure(name: string, url: string, cookie: string | null, seconds
     cpuMsPerRequest: (cpuAfter - cpuBefore) / Math.max(1, result.requests.total),
     dbCpuMsPerRequest: dbMs / Math.max(1, result.requests.total),
     requests: result.requests.total,
-    non2xx: result.non2xx,
+    non2xx: unexpected,
     errors: result.errors + result.timeouts,
     rps: result.requests.average,
     p50: percentile(latencies, 50),
@@ -356,7 +369,7 @@ async function measure(name: string, url: string, cookie: string | null, seconds
 function table(rows: Figures[]) {
   const fmt = (n: number) => (Number.isFinite(n) ? n.toFixed(1) : "—");
   console.log(
-    `\n${"route".padEnd(34)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"req/s".padStart(8)} ${"app CPU/req".padStart(12)} ${"db CPU/req".padStart(11)} ${"size".padStart(9)} ${"non-2xx".padStart(8)}`,
+    `\n${"route".padEnd(34)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"req/s".padStart(8)} ${"app CPU/req".padStart(12)} ${"db CPU/req".padStart(11)} ${"size".padStart(9)} ${"failed".padStart(8)}`,
   );
   for (const r of rows) {
     console.log(
@@ -413,7 +426,16 @@ async function main() {
       rows.push(await measure("GET /api/homes (2,000, by name)", `${base}/api/homes`, cookie, DURATION_S, pid, dbPids));
       rows.push(await measure("GET /api/homes (2,000, by zones)", `${base}/api/homes?sort=zones&dir=desc`, cookie, DURATION_S, pid, dbPids));
     }
-    rows.push(await measure("GET board (12 zones × 40 cards)", `${base}/api/homes/${data.bigHomeId}/board`, cookie, DURATION_S, pid, dbPids));
+    const boardUrl = `${base}/api/homes/${data.bigHomeId}/board`;
+    rows.push(await measure("GET board (12 zones × 40 cards)", boardUrl, cookie, DURATION_S, pid, dbPids));
+    // What a browser's revalidation of an unchanged board costs (SWR on focus, reload): 304, no body.
+    const etag = (await fetch(boardUrl, { headers: { cookie } })).headers.get("etag") ?? "";
+    rows.push(
+      await measure("GET board, unchanged (304)", boardUrl, cookie, DURATION_S, pid, dbPids, {
+        headers: { "if-none-match": etag },
+        expect: (status) => status === 304,
+      }),
+    );
     table(rows);
     if (onlyBoard) return;
 
@@ -436,7 +458,7 @@ async function main() {
     console.log(`  board p95 within 3× floor:    ${(boardRow.p95 / floor.p95).toFixed(2)}× (floor p95 ${floor.p95.toFixed(1)} ms)  ${boardRow.p95 <= 3 * floor.p95 ? "met" : "NOT met"}`);
     const load = fs.readFileSync("/proc/loadavg", "utf8").split(" ").slice(0, 3).join(" ");
     console.log(`  machine load average during the run: ${load} (2 cores; other work on the machine inflates latency, not CPU/req)`);
-    if (rows.some((r) => r.non2xx + r.errors > 0)) console.log("  Some requests failed: the figures above count 2xx answers only.");
+    if (rows.some((r) => r.non2xx + r.errors > 0)) console.log("  Some requests failed: the figures above count expected answers only (2xx; 304 for the revalidation row).");
   } finally {
     stopChildren();
     if (!flag("keep")) {
