@@ -183,7 +183,11 @@ const columnsCache = new LRUCache<string, CachedColumns>({
 export interface BoardBody {
   /** Changes whenever anything in the answer would: the home, its zones, the library, or who asks. */
   etag: string;
-  body: Uint8Array<ArrayBuffer>;
+  /**
+   * The answer in two parts: this reader's head, then the shared cached columns
+   * (sent as they are, never copied or changed).
+   */
+  parts: [Uint8Array, Uint8Array];
 }
 
 /**
@@ -225,15 +229,12 @@ export async function getBoardBody({ actor, homeId }: { actor: Actor; homeId: st
   };
   const headJson = JSON.stringify(head).slice(0, -1);
   const headHash = createHash("sha1").update(headJson).digest("base64url").slice(0, 16);
-  const headBytes = Buffer.from(headJson);
-  const body = new Uint8Array(headBytes.byteLength + columns.tail.byteLength);
-  body.set(headBytes);
-  body.set(columns.tail, headBytes.byteLength);
-  return { etag: `W/"b${columns.boardVersion}.l${columns.libraryVersion}.${headHash}"`, body };
+  return { etag: `W/"b${columns.boardVersion}.l${columns.libraryVersion}.${headHash}"`, parts: [Buffer.from(headJson), columns.tail] };
 }
 
 export async function getBoard(input: { actor: Actor; homeId: string }): Promise<BoardDto> {
-  return JSON.parse(new TextDecoder().decode((await getBoardBody(input)).body)) as BoardDto;
+  const { parts } = await getBoardBody(input);
+  return JSON.parse(Buffer.concat(parts).toString("utf8")) as BoardDto;
 }
 
 // ── rules shared by the writes ─────────────────────────────────────────────

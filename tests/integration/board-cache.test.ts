@@ -33,6 +33,10 @@ describe("board answer: cache and ETag", () => {
     const etag = first.headers.get("etag");
     expect(etag).toMatch(/^W\/"b\d+\.l\d+\.[\w-]+"$/);
     expect(first.headers.get("cache-control")).toBe("private, no-cache");
+    // The cached part is sent as it is: a second answer is the same, byte for byte, and says its length.
+    const repeat = await read(people.integrator, "Lindqvist residence");
+    expect(repeat.text).toBe(first.text);
+    expect(Number(repeat.headers.get("content-length"))).toBe(Buffer.byteLength(first.text));
     const again = await read(people.integrator, "Lindqvist residence", { "if-none-match": etag! });
     expect(again.status).toBe(304);
     expect(again.text).toBe("");
