@@ -8,6 +8,7 @@ import type { TeamDto, TeamMemberDto } from "@/db/queries/team";
 import { useHydrated } from "@/components/ui/use-hydrated";
 import { sendJson, type ApiError } from "@/lib/fetcher";
 import { roleLabels, staffRoles, type Role } from "@/lib/permissions";
+import { teamSearch } from "@/lib/validation/team";
 
 export const teamKey = "/api/team";
 export const invitationsKey = "/api/invitations";
@@ -130,10 +131,36 @@ function RemoveDialog({ member, onClose, onDone }: { member: TeamMemberDto; onCl
   );
 }
 
+function HouseholdRange({ team, busy }: { team: TeamDto; busy: boolean }) {
+  const first = team.householdTotal === 0 ? 0 : (team.householdPage - 1) * team.householdPageSize + 1;
+  const last = Math.min(team.householdTotal, team.householdPage * team.householdPageSize);
+  return (
+    <p className="text-sm text-slate-600" role="status" data-testid="household-range">
+      {team.householdTotal > 0 ? `Homes ${first}–${last} of ${team.householdTotal.toLocaleString("en-GB")}` : ""}
+      {busy ? " · loading…" : ""}
+    </p>
+  );
+}
+
+function HouseholdPager({ team, go }: { team: TeamDto; go: (page: number) => void }) {
+  const pages = Math.max(1, Math.ceil(team.householdTotal / team.householdPageSize));
+  if (pages <= 1) return null;
+  return (
+    <nav aria-label="Pages of homes" className="flex items-center gap-2 text-sm">
+      <button type="button" className={buttonClass} disabled={team.householdPage <= 1} onClick={() => go(team.householdPage - 1)}>Previous</button>
+      <span className="text-slate-600">Page {team.householdPage} of {pages}</span>
+      <button type="button" className={buttonClass} disabled={team.householdPage >= pages} onClick={() => go(team.householdPage + 1)}>Next</button>
+    </nav>
+  );
+}
+
 /** Team members and roles, households per home, and invitations. */
 export function TeamManager({ rights, invitableHomes }: { rights: TeamRights; invitableHomes: { id: string; name: string }[] }) {
   const hydrated = useHydrated();
-  const { data: team, error, mutate } = useSWR<TeamDto, ApiError>(teamKey);
+  // Households come a page at a time (a company may look after thousands of homes).
+  const [householdQuery, setHouseholdQuery] = useState({ hsearch: "", hpage: 1 });
+  const [searchText, setSearchText] = useState("");
+  const { data: team, error, mutate, isValidating } = useSWR<TeamDto, ApiError>(`${teamKey}${teamSearch(householdQuery)}`, { keepPreviousData: true });
   const canSeeInvitations = rights.canInviteTeam || rights.canInviteHousehold;
   const { data: invitations, mutate: mutateInvitations } = useSWR<{ items: InvitationDto[] }, ApiError>(canSeeInvitations ? invitationsKey : null);
   const [notice, setNotice] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
@@ -252,6 +279,30 @@ export function TeamManager({ rights, invitableHomes }: { rights: TeamRights; in
 
       <section aria-labelledby="households-heading" className="space-y-3">
         <h2 id="households-heading" className="text-lg font-semibold">Households</h2>
+        <form
+          role="search"
+          className="flex flex-wrap items-center gap-2"
+          onSubmit={(e) => {
+            e.preventDefault();
+            setHouseholdQuery({ hsearch: searchText.trim(), hpage: 1 });
+          }}
+        >
+          <label htmlFor="household-search" className="text-sm text-slate-600">Find a home</label>
+          <input id="household-search" type="search" value={searchText} onChange={(e) => setSearchText(e.target.value)}
+            placeholder="Home, household or city" maxLength={100} className="w-64 rounded-md border border-slate-300 px-2 py-1 text-sm" />
+          <button type="submit" className={buttonClass}>Search</button>
+          {team.householdSearch ? (
+            <button type="button" className="text-sm text-accent-700 underline" onClick={() => { setSearchText(""); setHouseholdQuery({ hsearch: "", hpage: 1 }); }}>
+              Show all homes
+            </button>
+          ) : null}
+        </form>
+        <HouseholdRange team={team} busy={isValidating} />
+        {team.households.length === 0 ? (
+          <p className="text-sm text-slate-600" data-testid="households-empty">
+            {team.householdSearch ? `No home matches “${team.householdSearch}”.` : "No homes yet."}
+          </p>
+        ) : null}
         <ul className="grid gap-3 md:grid-cols-2">
           {team.households.map((h) => (
             <li key={h.home.id} className="rounded-lg border border-slate-200 bg-white p-3" data-testid="household-card">
@@ -273,6 +324,7 @@ export function TeamManager({ rights, invitableHomes }: { rights: TeamRights; in
             </li>
           ))}
         </ul>
+        <HouseholdPager team={team} go={(hpage) => setHouseholdQuery((q) => ({ ...q, hpage }))} />
         {rights.canInviteHousehold ? (
           <InviteForm mode="household" homes={invitableHomes} onSent={(text) => { setNotice({ tone: "ok", text }); void mutateInvitations(); }} />
         ) : null}

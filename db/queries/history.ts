@@ -2,6 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, isNull, like, lt, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db/client";
 import { auditEvents, homes, member, pushTargets, user, zoneRevisions, zones, type Zone } from "@/db/schema";
+import { escapeLike } from "@/db/queries/like";
 import { applyZoneConfig, CurveResolver } from "@/db/queries/apply-config";
 import { finishPushIfDone } from "@/db/queries/push-targets";
 import { changeZone, changeZoneInTransaction } from "@/db/queries/zone-writes";
@@ -383,9 +384,6 @@ export interface ActivityListDto {
   pageSize: number;
 }
 
-function escapeLike(value: string) {
-  return value.replace(/[\\%_]/g, (c) => `\\${c}`);
-}
 
 function activityWhere(actor: Actor, f: ActivityFilters): SQL {
   const filters: SQL[] = [eq(auditEvents.organizationId, actor.organizationId)];

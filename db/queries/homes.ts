@@ -2,6 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db/client";
 import { homeAssignments, homes, zones } from "@/db/schema";
+import { escapeLike } from "@/db/queries/like";
 import { recordAudit, diffFields } from "@/db/queries/audit";
 import { driftSummaryForHomes, type DriftCounts } from "@/db/queries/drift-summary";
 import { AppError } from "@/lib/errors";
@@ -33,9 +34,6 @@ export interface HomeListDto {
 const zoneCount = sql<number>`(select count(*)::int from zones z where z.home_id = "homes"."id" and z.deleted_at is null)`;
 const offlineDevices = sql<number>`(select count(*)::int from devices d where d.home_id = "homes"."id" and d.online = false)`;
 
-function escapeLike(value: string) {
-  return value.replace(/[\\%_]/g, (c) => `\\${c}`);
-}
 
 export async function listHomes({ actor, query }: { actor: Actor; query: HomeListQuery }): Promise<HomeListDto> {
   const filters: SQL[] = [eq(homes.organizationId, actor.organizationId)];

@@ -1,10 +1,12 @@
 import "server-only";
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, count, eq, ilike, inArray, or, sql } from "drizzle-orm";
 import { db, type Transaction } from "@/db/client";
 import { homeAssignments, homes, householdMembers, member, session, user } from "@/db/schema";
+import { escapeLike } from "@/db/queries/like";
 import { recordAudit } from "@/db/queries/audit";
 import { AppError } from "@/lib/errors";
 import { type Actor, type Role, can, roleLabels, staffRoles } from "@/lib/permissions";
+import { householdPageSize, type TeamQuery } from "@/lib/validation/team";
 
 // The team page: staff members and their roles, household members per home.
 // Only the owner changes roles or removes people, and the company never loses
@@ -28,11 +30,17 @@ export interface HouseholdDto {
 
 export interface TeamDto {
   members: TeamMemberDto[];
+  /** One page of the company's homes with their household members (a company may look after thousands). */
   households: HouseholdDto[];
+  householdTotal: number;
+  householdPage: number;
+  householdPageSize: number;
+  householdSearch: string;
   ownerCount: number;
 }
 
-export async function getTeam({ actor }: { actor: Actor }): Promise<TeamDto> {
+
+export async function getTeam({ actor, query = { hsearch: "", hpage: 1 } }: { actor: Actor; query?: TeamQuery }): Promise<TeamDto> {
   if (!can(actor, "team:read")) throw new AppError("auth:forbidden");
   const rows = await db
     .select({ memberId: member.id, userId: user.id, name: user.name, email: user.email, role: member.role, since: member.createdAt })
@@ -41,7 +49,24 @@ export async function getTeam({ actor }: { actor: Actor }): Promise<TeamDto> {
     .where(and(eq(member.organizationId, actor.organizationId), inArray(member.role, staffRoles)))
     .orderBy(asc(user.name));
   const userIds = rows.map((r) => r.userId);
-  const [assignments, householdRows, homeRows] = await Promise.all([
+  const homeFilters = [eq(homes.organizationId, actor.organizationId)];
+  if (query.hsearch) {
+    const pattern = `%${escapeLike(query.hsearch)}%`;
+    homeFilters.push(or(ilike(homes.name, pattern), ilike(homes.householdName, pattern), ilike(homes.city, pattern))!);
+  }
+  const homeWhere = and(...homeFilters);
+  const [[{ total: householdTotal }], homeRows] = await Promise.all([
+    db.select({ total: count() }).from(homes).where(homeWhere),
+    db
+      .select({ id: homes.id, name: homes.name, householdName: homes.householdName })
+      .from(homes)
+      .where(homeWhere)
+      .orderBy(asc(homes.name), asc(homes.id))
+      .limit(householdPageSize)
+      .offset((query.hpage - 1) * householdPageSize),
+  ]);
+  const pageHomeIds = homeRows.map((h) => h.id);
+  const [assignments, householdRows] = await Promise.all([
     userIds.length
       ? db
           .select({ userId: homeAssignments.userId, homeId: homes.id, homeName: homes.name })
@@ -50,18 +75,14 @@ export async function getTeam({ actor }: { actor: Actor }): Promise<TeamDto> {
           .where(and(inArray(homeAssignments.userId, userIds), eq(homes.organizationId, actor.organizationId)))
           .orderBy(asc(homes.name))
       : Promise.resolve([]),
-    db
-      .select({ homeId: householdMembers.homeId, userId: user.id, name: user.name, email: user.email, since: householdMembers.createdAt })
-      .from(householdMembers)
-      .innerJoin(homes, eq(homes.id, householdMembers.homeId))
-      .innerJoin(user, eq(user.id, householdMembers.userId))
-      .where(eq(homes.organizationId, actor.organizationId))
-      .orderBy(asc(user.name)),
-    db
-      .select({ id: homes.id, name: homes.name, householdName: homes.householdName })
-      .from(homes)
-      .where(eq(homes.organizationId, actor.organizationId))
-      .orderBy(asc(homes.name)),
+    pageHomeIds.length
+      ? db
+          .select({ homeId: householdMembers.homeId, userId: user.id, name: user.name, email: user.email, since: householdMembers.createdAt })
+          .from(householdMembers)
+          .innerJoin(user, eq(user.id, householdMembers.userId))
+          .where(inArray(householdMembers.homeId, pageHomeIds))
+          .orderBy(asc(user.name))
+      : Promise.resolve([]),
   ]);
   const order = (r: Role) => staffRoles.indexOf(r);
   return {
@@ -83,6 +104,10 @@ export async function getTeam({ actor }: { actor: Actor }): Promise<TeamDto> {
         .filter((m) => m.homeId === h.id)
         .map((m) => ({ userId: m.userId, name: m.name, email: m.email, since: m.since.toISOString() })),
     })),
+    householdTotal,
+    householdPage: query.hpage,
+    householdPageSize,
+    householdSearch: query.hsearch,
     ownerCount: rows.filter((r) => r.role === "owner").length,
   };
 }

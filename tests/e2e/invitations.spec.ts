@@ -51,6 +51,24 @@ test("the owner cannot demote or remove the only owner; a role change shows at o
   await expect(team.notice()).toContainText("Priya Raman is now support.");
 });
 
+test("households are found by home, household or city, and listed a page at a time", async ({ page }) => {
+  await signInAs(page, "mira@fernhill.example");
+  const team = new TeamPage(page);
+  await team.goto();
+  await expect(page.getByTestId("household-range")).toContainText(/Homes 1–\d+ of \d+/);
+  await page.getByLabel("Find a home").fill("kestrel");
+  await page.getByRole("button", { name: "Search", exact: true }).click();
+  await expect(page.getByTestId("household-card")).toHaveCount(1);
+  await expect(page.getByTestId("household-card")).toContainText("Marchetti lake house");
+  await expect(page.getByTestId("household-card")).toContainText("marco@marchetti.example");
+  await page.getByLabel("Find a home").fill("nowhere at all");
+  await page.getByRole("button", { name: "Search", exact: true }).click();
+  await expect(page.getByTestId("households-empty")).toHaveText("No home matches “nowhere at all”.");
+  await page.getByRole("button", { name: "Show all homes" }).click();
+  await expect(page.getByTestId("household-card").first()).toBeVisible();
+  await expect(page.getByTestId("households-empty")).toHaveCount(0);
+});
+
 test("a made-up invitation link is refused in plain words", async ({ page }) => {
   await page.goto(`/invitations/${"x".repeat(43)}`);
   await expect(new InvitationPage(page).refusal()).toContainText("This invitation link is not valid");

@@ -41,6 +41,37 @@ describe("the team page's data", () => {
     expect(JSON.stringify(team)).not.toMatch(/password|scrypt|Tidewater|Rafael/i);
   });
 
+  it("lists homes with their households a page at a time, searched by home, household or city", async () => {
+    // 2,000 more homes of the same company: the page must not grow with them.
+    await query(
+      `insert into homes (organization_id, name, household_name, city)
+       select o.id, 'Paging home ' || lpad(g::text, 4, '0'), 'Paging household ' || g, 'Paging City'
+       from organization o, generate_series(1, 2000) g where o.slug = 'fernhill-audio-works'`,
+    );
+    const first = (await as(people.integrator, teamRoute, { path: "/api/team" })).json as unknown as TeamDto;
+    expect(first.households).toHaveLength(24);
+    expect(first.householdPageSize).toBe(24);
+    expect(first.householdTotal).toBe(2005);
+    expect(first.householdPage).toBe(1);
+
+    const found = await as(people.integrator, teamRoute, { path: "/api/team?hsearch=lindqvist" });
+    const byName = found.json as unknown as TeamDto;
+    expect(byName.households.map((h) => h.home.name)).toEqual(["Lindqvist residence"]);
+    expect(byName.households[0].members.map((m) => m.email)).toEqual([people.homeowner]);
+    expect(byName.householdSearch).toBe("lindqvist");
+
+    const last = (await as(people.integrator, teamRoute, { path: "/api/team?hsearch=Paging%20City&hpage=84" })).json as unknown as TeamDto;
+    expect(last.householdTotal).toBe(2000);
+    expect(last.households.map((h) => h.home.name)).toEqual(["Paging home 1993", "Paging home 1994", "Paging home 1995", "Paging home 1996", "Paging home 1997", "Paging home 1998", "Paging home 1999", "Paging home 2000"]);
+    // A pattern character is searched for as itself.
+    expect(((await as(people.integrator, teamRoute, { path: "/api/team?hsearch=%25" })).json as unknown as TeamDto).householdTotal).toBe(0);
+
+    const bad = await as(people.integrator, teamRoute, { path: "/api/team?hpage=0" });
+    expect(bad.status).toBe(400);
+    expect(bad.json.error?.fieldErrors?.hpage).toBeDefined();
+    await query("delete from homes where name like 'Paging home %'");
+  });
+
   it("homeowners have no team page", async () => {
     expect((await as(people.homeowner, teamRoute, { path: "/api/team" })).status).toBe(403);
   });

@@ -1,4 +1,6 @@
 import { getTeam } from "@/db/queries/team";
 import { apiHandler } from "@/lib/api/handler";
+import { teamQuerySchema } from "@/lib/validation/team";
 
-export const GET = apiHandler({}, async ({ actor }) => getTeam({ actor }));
+// Staff with roles, and one page of homes with their household members (?hsearch=&hpage=).
+export const GET = apiHandler({ query: teamQuerySchema }, async ({ actor, query }) => getTeam({ actor, query }));
