@@ -313,13 +313,14 @@ async function assertZoneCurveFits(tx: Executor, zone: Zone, curveId: string | n
   if (!curveId) return;
   const profile = await profileOf(tx, zone);
   if (!profile) return;
-  const cardCurves = await tx
-    .select({ id: sources.toneCurveId })
-    .from(sources)
-    .where(eq(sources.zoneId, zone.id))
-    .union(tx.select({ id: streamPresets.toneCurveId }).from(streamPresets).where(eq(streamPresets.zoneId, zone.id)));
-  const counts = await Promise.all(cardCurves.map((c) => bandCount(tx, c.id)));
-  const most = Math.max(0, ...counts);
+  const [{ most }] = (
+    await tx.execute<{ most: number }>(sql`
+      select coalesce(max(n), 0)::int as most from (
+        select count(*) as n from tone_curve_bands b
+        where b.curve_id in (select tone_curve_id from sources where zone_id = ${zone.id}
+                             union select tone_curve_id from stream_presets where zone_id = ${zone.id})
+        group by b.curve_id) per_curve`)
+  ).rows;
   const own = await bandCount(tx, curveId);
   if (own + most > profile.eqBands) {
     throw new AppError("zone:rule", {
@@ -642,6 +643,30 @@ async function compactPositions(tx: Transaction, table: "sources" | "stream_pres
     where t.id = o.id and t.position <> o.n - 1`);
 }
 
+/**
+ * Put a zone's sources or presets in the order of `ids` (which must name each
+ * exactly once); the audit change lists the names before and after.
+ */
+async function reorderList(tx: Transaction, zoneId: string, list: "sources" | "stream_presets", ids: string[]): Promise<FieldChange> {
+  const { table, name, what, field } =
+    list === "sources"
+      ? { table: sources, name: sources.label, what: "source", field: "zone.sourceOrder" }
+      : { table: streamPresets, name: streamPresets.name, what: "stream preset", field: "zone.presetOrder" };
+  const current = await tx
+    .select({ id: table.id, name })
+    .from(table)
+    .where(eq(table.zoneId, zoneId))
+    .orderBy(asc(table.position), asc(table.id));
+  assertSameSet(
+    current.map((c) => c.id),
+    ids,
+    what,
+  );
+  await applyListOrder(tx, list, zoneId, ids);
+  const names = new Map(current.map((c) => [c.id, c.name]));
+  return { field, before: current.map((c) => c.name), after: ids.map((id) => names.get(id)) };
+}
+
 export async function reorderSources({
   actor,
   zoneId,
@@ -662,19 +687,7 @@ export async function reorderSources({
     summary: (zone) => `Reordered the sources of “${zone.name}”`,
     apply: async (tx, zone) => {
       await assertZoneOpenFor(tx, actor, zone);
-      const current = await tx
-        .select({ id: sources.id, label: sources.label })
-        .from(sources)
-        .where(eq(sources.zoneId, zone.id))
-        .orderBy(asc(sources.position), asc(sources.id));
-      assertSameSet(
-        current.map((s) => s.id),
-        ids,
-        "source",
-      );
-      await applyListOrder(tx, "sources", zone.id, ids);
-      const label = new Map(current.map((s) => [s.id, s.label]));
-      return [{ field: "zone.sourceOrder", before: current.map((s) => s.label), after: ids.map((id) => label.get(id)) }];
+      return [await reorderList(tx, zone.id, "sources", ids)];
     },
   });
   return finish(actor.organizationId, [result]);
@@ -801,19 +814,7 @@ export async function reorderPresets({
     summary: (zone) => `Reordered the stream presets of “${zone.name}”`,
     apply: async (tx, zone) => {
       await assertZoneOpenFor(tx, actor, zone);
-      const current = await tx
-        .select({ id: streamPresets.id, name: streamPresets.name })
-        .from(streamPresets)
-        .where(eq(streamPresets.zoneId, zone.id))
-        .orderBy(asc(streamPresets.position), asc(streamPresets.id));
-      assertSameSet(
-        current.map((p) => p.id),
-        ids,
-        "stream preset",
-      );
-      await applyListOrder(tx, "stream_presets", zone.id, ids);
-      const name = new Map(current.map((p) => [p.id, p.name]));
-      return [{ field: "zone.presetOrder", before: current.map((p) => p.name), after: ids.map((id) => name.get(id)) }];
+      return [await reorderList(tx, zone.id, "stream_presets", ids)];
     },
   });
   return finish(actor.organizationId, [result]);

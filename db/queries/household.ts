@@ -7,7 +7,6 @@ import { startPush } from "@/lib/fleet/push-service";
 import { sourceKindLabels, type SourceKind } from "@/lib/devices/model-profiles";
 import { AppError } from "@/lib/errors";
 import { type Actor, can } from "@/lib/permissions";
-import { addOverrides } from "@/lib/zones/template-merge";
 
 // The household's read-only view of their own home(s), in plain words, and the
 // one change a household makes: the order of their favourite stations. What a
@@ -280,11 +279,9 @@ export async function reorderHouseholdPresets({
           fieldErrors: { presetIds: ["Must name each of this room’s stations once."] },
         });
       }
+      // A zone made from a template keeps the household's order when the template
+      // changes: changeZone records "presets.order" among its overrides.
       await applyListOrder(tx, "stream_presets", zone.id, presetIds);
-      // A zone made from a template keeps the household's order when the template changes.
-      if (zone.templateId && !zone.overrides.includes("presets.order")) {
-        await tx.update(zones).set({ overrides: addOverrides(zone.overrides, ["presets.order"]) }).where(eq(zones.id, zone.id));
-      }
       const name = new Map(current.map((p) => [p.id, p.name]));
       return [{ field: "Favourite stations · order", before: current.map((p) => p.name), after: presetIds.map((id) => name.get(id)) }];
     },

@@ -86,12 +86,21 @@ export interface RevisionRef {
   created: boolean;
 }
 
-/** Snapshot the zone as a revision unless the latest one has the same content. */
+/**
+ * Snapshot the zone as a revision unless the latest one has the same content.
+ * `config`: the zone's configuration when the caller has just loaded it.
+ */
 export async function snapshotZone(
   tx: Transaction,
-  { zoneId, organizationId, authorId, message }: { zoneId: string; organizationId: string; authorId: string | null; message?: string | null },
+  {
+    zoneId,
+    organizationId,
+    authorId,
+    message,
+    config: loaded,
+  }: { zoneId: string; organizationId: string; authorId: string | null; message?: string | null; config?: ZoneConfig },
 ): Promise<RevisionRef> {
-  const config = await loadZoneConfig(tx, zoneId);
+  const config = loaded ?? (await loadZoneConfig(tx, zoneId));
   const hash = contentHash(config);
   const [latest] = await tx
     .select({ id: zoneRevisions.id, number: zoneRevisions.number, contentHash: zoneRevisions.contentHash })
@@ -163,9 +172,11 @@ export async function changeZoneInTransaction(
   }
   const tracked = zone.templateId !== null && templateOverrides === "track" ? await loadZoneConfig(tx, zoneId) : null;
   const changes = await apply(tx, zone);
-  if (tracked) {
-    const paths = overridePathsForEdit(tracked, await loadZoneConfig(tx, zoneId));
-    const next = addOverrides(zone.overrides, paths);
+  // Neither the overrides nor the version below are part of the configuration, so
+  // what is read here is also what the revision snapshot stores.
+  const after = tracked ? await loadZoneConfig(tx, zoneId) : undefined;
+  if (tracked && after) {
+    const next = addOverrides(zone.overrides, overridePathsForEdit(tracked, after));
     if (next.length !== zone.overrides.length) await tx.update(zones).set({ overrides: next }).where(eq(zones.id, zoneId));
   }
   const [updated] = await tx
@@ -174,7 +185,7 @@ export async function changeZoneInTransaction(
     .where(eq(zones.id, zoneId))
     .returning({ version: zones.version });
   await tx.update(homes).set({ updatedAt: new Date() }).where(eq(homes.id, zone.homeId));
-  const revision = await snapshotZone(tx, { zoneId, organizationId: zone.organizationId, authorId: actor.userId, message });
+  const revision = await snapshotZone(tx, { zoneId, organizationId: zone.organizationId, authorId: actor.userId, message, config: after });
   await recordAudit(tx, actor, {
     kind,
     summary: typeof summary === "function" ? summary(zone) : summary,
